@@ -1,0 +1,8 @@
+// Barrel required by drizzle-kit and the typed client.
+export * from './organisations';
+export * from './users';
+export * from './catalog';
+export * from './sites';
+export * from './claims';
+export * from './payments';
+export * from './system';

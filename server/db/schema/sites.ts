@@ -1,0 +1,39 @@
+import { sqliteTable, text, real, index, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { models } from './catalog';
+
+/** A restaurant where units are installed. */
+export const sites = sqliteTable(
+  'sites',
+  {
+    id: text('id').primaryKey(),
+    name: text('name').notNull(),
+    addressLine: text('address_line').notNull(),
+    city: text('city').notNull(),
+    region: text('region').notNull(),
+    postalCode: text('postal_code').notNull(),
+    latitude: real('latitude').notNull(),
+    longitude: real('longitude').notNull(),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [index('sites_name_idx').on(t.name)],
+);
+
+export const units = sqliteTable(
+  'units',
+  {
+    id: text('id').primaryKey(),
+    serial: text('serial').notNull(),
+    modelId: text('model_id')
+      .notNull()
+      .references(() => models.id),
+    revision: text('revision').notNull(),
+    shipDate: text('ship_date').notNull(),
+    installDate: text('install_date'),
+    siteId: text('site_id').references(() => sites.id),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('units_serial_uq').on(t.serial), index('units_model_idx').on(t.modelId), index('units_site_idx').on(t.siteId)],
+);
+
+export type Site = typeof sites.$inferSelect;
+export type Unit = typeof units.$inferSelect;

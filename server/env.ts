@@ -1,0 +1,41 @@
+import { z } from 'zod';
+
+const bool = z
+  .enum(['true', 'false', '1', '0'])
+  .transform((v) => v === 'true' || v === '1');
+
+/** Every setting has a default that runs out of the box on one machine. */
+export const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  PUBLIC_URL: z.url().default('http://localhost:3000'),
+  DATABASE_PATH: z.string().min(1).default('./data/fieldproof.sqlite'),
+  STORAGE_DIR: z.string().min(1).default('./data/files'),
+  SESSION_SECRET: z.string().min(32, 'SESSION_SECRET must be at least 32 characters').default('fieldproof-local-session-secret-change-me-0001'),
+  PASSWORD_PEPPER: z.string().min(16, 'PASSWORD_PEPPER must be at least 16 characters').default('fieldproof-local-pepper-change-me'),
+  SMTP_URL: z.string().optional(),
+  MAIL_FROM: z.string().default('Fieldproof <no-reply@fieldproof.test>'),
+  MAIL_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  SEED_DEMO: bool.default(true),
+  COOKIE_SECURE: bool.optional(),
+  BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(10),
+  TRUST_PROXY: bool.default(false),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const env = parsed.data;
+  if (env.NODE_ENV === 'production' && process.env.FIELDPROOF_STRICT_SECRETS === 'true') {
+    if (env.SESSION_SECRET.includes('change-me') || env.PASSWORD_PEPPER.includes('change-me')) {
+      throw new Error('Invalid configuration:\n  SESSION_SECRET / PASSWORD_PEPPER: set real secrets in strict mode');
+    }
+  }
+  return env;
+}

@@ -1,0 +1,19 @@
+import type { Request } from 'express';
+import type { AppAbility, SessionUser } from '@shared/permissions/ability';
+import { UnauthenticatedError } from './errors';
+
+export interface RequestContext {
+  user: SessionUser;
+  ability: AppAbility;
+}
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    ctx?: RequestContext;
+  }
+}
+
+export function requireCtx(req: Request): RequestContext {
+  if (!req.ctx) throw new UnauthenticatedError();
+  return req.ctx;
+}
