@@ -1,0 +1,64 @@
+import express, { type Express, type RequestHandler } from 'express';
+import cookieParser from 'cookie-parser';
+import type { Db } from './db/client';
+import type { Env } from './env';
+import { systemClock, type Clock } from './lib/clock';
+import { OutboxDispatcher } from './lib/mail/outbox';
+import type { Mailer } from './lib/mail/mailer';
+import type { MailSink } from './lib/mail/sink';
+import { SessionTokens } from './lib/session';
+import type { AppDeps } from './lib/deps';
+import { authenticate } from './middleware/authenticate';
+import { csrfGuard, noStore, securityHeaders } from './middleware/security';
+import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { mountApi } from './routes';
+
+export interface CreateAppOptions {
+  db: Db;
+  env: Env;
+  mailer: Mailer;
+  clock?: Clock;
+  sink?: MailSink | null;
+  /** Serves the client after the API: static build in production, Vite middleware in development. */
+  client?: RequestHandler[];
+}
+
+export interface App {
+  app: Express;
+  deps: AppDeps;
+}
+
+/** Builds the Express app without listening, so tests drive it with supertest. */
+export function createApp(opts: CreateAppOptions): App {
+  const clock = opts.clock ?? systemClock;
+  const deps: AppDeps = {
+    db: opts.db,
+    env: opts.env,
+    clock,
+    outbox: new OutboxDispatcher(opts.db, opts.mailer, clock),
+    tokens: new SessionTokens(opts.env.SESSION_SECRET),
+    sink: opts.sink ?? null,
+    secureCookies: opts.env.COOKIE_SECURE ?? opts.env.NODE_ENV === 'production',
+  };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', opts.env.TRUST_PROXY ? 1 : false);
+  app.set('query parser', 'simple');
+  app.use(securityHeaders({ dev: opts.env.NODE_ENV === 'development' }));
+
+  const api = express.Router();
+  api.use(noStore);
+  api.use(csrfGuard(new URL(opts.env.PUBLIC_URL).origin));
+  api.use(express.json({ limit: '256kb', strict: true }));
+  api.use(cookieParser());
+  api.use(authenticate({ db: deps.db, tokens: deps.tokens, clock, secureCookies: deps.secureCookies }));
+  mountApi(api, deps);
+  api.use(apiNotFound);
+  app.use('/api', api);
+  app.use('/api', errorHandler);
+
+  for (const h of opts.client ?? []) app.use(h);
+  app.use(errorHandler);
+  return { app, deps };
+}

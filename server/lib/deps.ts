@@ -1,0 +1,18 @@
+import type { Db } from '../db/client';
+import type { Env } from '../env';
+import type { Clock } from './clock';
+import type { OutboxDispatcher } from './mail/outbox';
+import type { MailSink } from './mail/sink';
+import type { SessionTokens } from './session';
+
+/** What every module receives: built once in createApp, never a global. */
+export interface AppDeps {
+  db: Db;
+  env: Env;
+  clock: Clock;
+  outbox: OutboxDispatcher;
+  tokens: SessionTokens;
+  /** The in-process SMTP sink when no SMTP_URL is configured (development mailbox). */
+  sink: MailSink | null;
+  secureCookies: boolean;
+}

@@ -1,0 +1,140 @@
+import { z } from 'zod';
+
+export const claimStates = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
+export type ClaimState = (typeof claimStates)[number];
+
+export const claimStateLabels: Record<ClaimState, string> = {
+  draft: 'Draft',
+  submitted: 'Submitted',
+  in_review: 'In review',
+  returned: 'Returned',
+  approved: 'Approved',
+  denied: 'Denied',
+  paid: 'Paid',
+  withdrawn: 'Withdrawn',
+};
+
+export const attachmentRoles = ['serial_plate', 'failed_part', 'replacement_part', 'unit_overall', 'invoice', 'readings_sheet', 'other'] as const;
+export type AttachmentRole = (typeof attachmentRoles)[number];
+export const attachmentRoleLabels: Record<AttachmentRole, string> = {
+  serial_plate: 'Serial plate',
+  failed_part: 'Failed part',
+  replacement_part: 'Replacement part installed',
+  unit_overall: 'Unit overall',
+  invoice: 'Invoice',
+  readings_sheet: 'Readings sheet',
+  other: 'Other',
+};
+
+const isoDate = z.iso.date('Use a date like 2026-03-31.');
+const text = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters.`);
+
+export const laborLineInputSchema = z.strictObject({
+  repairCodeId: z.string().min(1, 'Choose a repair code.'),
+  hoursWorked: z.number('Enter hours as a number.').min(0.1, 'At least 0.1 hour.').max(24, 'At most 24 hours on one line.'),
+  overtime: z.boolean().default(false),
+  note: text(500).default(''),
+});
+
+export const travelInputSchema = z.strictObject({
+  roundTripMiles: z.number('Enter miles as a number.').min(0).max(2000, 'At most 2,000 miles.'),
+  travelHours: z.number('Enter hours as a number.').min(0).max(48, 'At most 48 hours.'),
+});
+
+export const partLineInputSchema = z.strictObject({
+  partId: z.string().min(1, 'Choose a part.'),
+  quantity: z.number().int('Whole parts only.').min(1, 'At least 1.').max(99, 'At most 99.'),
+});
+
+export const readingInputSchema = z.strictObject({
+  key: z.string().min(1).max(60),
+  phase: z.enum(['before', 'after']),
+  value: z.number('Enter the reading as a number.').finite(),
+  unit: z.enum(['F', 'C', 'in', 'mm', 'A', 'V']),
+});
+
+/** The fields an agency user may write on a draft or returned claim; nothing else is accepted. */
+export const claimDraftSchema = z.strictObject({
+  serial: text(60).optional(),
+  complaint: text(4000).optional(),
+  cause: text(4000).optional(),
+  correction: text(4000).optional(),
+  failureDate: isoDate.nullable().optional(),
+  repairDate: isoDate.nullable().optional(),
+  preAuthorization: text(60).nullable().optional(),
+  laborLines: z.array(laborLineInputSchema).max(20).optional(),
+  travel: travelInputSchema.nullable().optional(),
+  partLines: z.array(partLineInputSchema).max(40).optional(),
+  readings: z.array(readingInputSchema).max(60).optional(),
+});
+export type ClaimDraftInput = z.infer<typeof claimDraftSchema>;
+
+export const createClaimSchema = claimDraftSchema.extend({ serial: text(60).min(1, 'Enter the serial number.') });
+
+/** Claim PATCH carries the version the user saw, so a stale edit answers 409. */
+export const updateClaimSchema = claimDraftSchema.extend({ version: z.number().int().min(1) });
+
+export const claimListQuerySchema = z.object({
+  state: z.enum(claimStates).optional(),
+  agency: z.string().max(64).optional(),
+  q: z.string().trim().max(80).optional(),
+  from: isoDate.optional(),
+  to: isoDate.optional(),
+  cursor: z.string().max(200).optional(),
+  limit: z.coerce.number().int().min(1).max(100).default(50),
+  sort: z.enum(['createdAt', 'submittedAt', 'repairDate', 'number', 'claimedTotalCents', 'state']).default('createdAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+});
+export type ClaimListQuery = z.infer<typeof claimListQuerySchema>;
+
+export interface ClaimListItem {
+  id: string;
+  number: string;
+  state: ClaimState;
+  agencyId: string;
+  agencyName: string;
+  technicianId: string;
+  technicianName: string;
+  serial: string | null;
+  modelNumber: string | null;
+  siteName: string | null;
+  failureDate: string | null;
+  repairDate: string | null;
+  submittedAt: string | null;
+  createdAt: string;
+  claimedTotalCents: number;
+  approvedTotalCents: number | null;
+  currency: string;
+  flags: string[];
+}
+
+export interface ClaimDetail extends ClaimListItem {
+  version: number;
+  complaint: string;
+  cause: string;
+  correction: string;
+  preAuthorization: string | null;
+  resubmissionCount: number;
+  firstSubmittedAt: string | null;
+  decidedAt: string | null;
+  paidAt: string | null;
+  reviewerName: string | null;
+  unit: null | {
+    id: string;
+    serial: string;
+    revision: string;
+    shipDate: string;
+    installDate: string | null;
+    model: { id: string; modelNumber: string; name: string; familyId: string; familyName: string };
+  };
+  site: null | { id: string; name: string; addressLine: string; city: string; region: string; postalCode: string; latitude: number; longitude: number };
+  laborLines: Array<{ id: string; position: number; repairCodeId: string; repairCode: string; description: string; allowedHours: number; hoursWorked: number; overtime: boolean; note: string; approvedHours: number | null; adjustmentReason: string | null; approvedAmountCents: number | null }>;
+  travel: null | { roundTripMiles: number; travelHours: number; approvedAmountCents: number | null; adjustmentReason: string | null };
+  partLines: Array<{ id: string; position: number; partId: string; partNumber: string; description: string; listPriceCents: number; returnRequired: boolean; quantity: number; approvedQuantity: number | null; approvedAmountCents: number | null; adjustmentReason: string | null; returnStatus: string; carrier: string | null; trackingNumber: string | null; receivedCondition: string | null }>;
+  readings: Array<{ id: string; key: string; phase: 'before' | 'after'; value: number; unit: string }>;
+  attachments: Array<{ id: string; role: AttachmentRole; originalName: string; contentType: string; sizeBytes: number; createdAt: string; hasThumbnail: boolean }>;
+  events: Array<{ id: string; type: string; fromState: string | null; toState: string | null; reason: string | null; comment: string | null; at: string; actorName: string | null }>;
+  comments: Array<{ id: string; body: string; createdAt: string; authorName: string; authorOrganisation: string }>;
+  /** Moves the workflow allows from this state AND this user's abilities allow. */
+  allowedActions: string[];
+}
