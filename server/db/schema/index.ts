@@ -6,3 +6,4 @@ export * from './sites';
 export * from './claims';
 export * from './payments';
 export * from './system';
+export * from './catalog-history';

@@ -1,0 +1,42 @@
+import { sqliteTable, text, integer, real, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { parts, repairCodes } from './catalog';
+import { users } from './users';
+
+/**
+ * Effective-dated list prices: the price of a part on a repair date is the row with the latest
+ * effective_from on or before that date. parts.list_price_cents mirrors the price in force on
+ * the day of the last change; valuations read this table through priceOn().
+ */
+export const partPrices = sqliteTable(
+  'part_prices',
+  {
+    id: text('id').primaryKey(),
+    partId: text('part_id')
+      .notNull()
+      .references(() => parts.id),
+    effectiveFrom: text('effective_from').notNull(),
+    listPriceCents: integer('list_price_cents').notNull(),
+    createdBy: text('created_by').references(() => users.id),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('part_prices_part_from_uq').on(t.partId, t.effectiveFrom)],
+);
+
+/** Effective-dated labor-time allowances of repair codes, read through allowanceOn(). */
+export const repairCodeAllowances = sqliteTable(
+  'repair_code_allowances',
+  {
+    id: text('id').primaryKey(),
+    repairCodeId: text('repair_code_id')
+      .notNull()
+      .references(() => repairCodes.id),
+    effectiveFrom: text('effective_from').notNull(),
+    allowedHours: real('allowed_hours').notNull(),
+    createdBy: text('created_by').references(() => users.id),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('repair_code_allowances_code_from_uq').on(t.repairCodeId, t.effectiveFrom)],
+);
+
+export type PartPrice = typeof partPrices.$inferSelect;
+export type RepairCodeAllowance = typeof repairCodeAllowances.$inferSelect;
