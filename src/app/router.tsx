@@ -1,0 +1,51 @@
+import { createBrowserRouter, type RouteObject } from 'react-router';
+import type { QueryClient } from '@tanstack/react-query';
+import { FullPageSpinner } from '@/components/ui/spinner';
+import { NotFoundRoute } from './routes/not-found';
+import { RootError, RouteError } from './routes/route-error';
+
+/**
+ * Every screen is its own chunk, loaded on first visit; loaders fill the query cache
+ * with the same options the screens read, so a page renders with its data.
+ */
+export function appRoutes(queryClient: QueryClient): RouteObject[] {
+  return [
+    {
+      id: 'root',
+      HydrateFallback: FullPageSpinner,
+      errorElement: <RootError />,
+      children: [
+        {
+          path: '/sign-in',
+          lazy: () => import('./routes/sign-in').then((m) => ({ loader: m.signInLoader(queryClient), Component: m.SignInRoute })),
+        },
+        { path: '/forgot-password', lazy: () => import('./routes/forgot-password').then((m) => ({ Component: m.ForgotPasswordRoute })) },
+        { path: '/reset-password', lazy: () => import('./routes/reset-password').then((m) => ({ Component: m.ResetPasswordRoute })) },
+        { path: '/dev/mailbox', lazy: () => import('./routes/mailbox').then((m) => ({ Component: m.MailboxRoute })) },
+        {
+          id: 'app',
+          lazy: () => import('./routes/app-layout').then((m) => ({ loader: m.appLayoutLoader(queryClient), Component: m.AppLayoutRoute })),
+          children: [
+            {
+              errorElement: <RouteError />,
+              children: [
+                { index: true, lazy: () => import('./routes/home').then((m) => ({ loader: m.homeLoader(queryClient), Component: m.HomeRoute })) },
+                { path: 'claims', lazy: () => import('./routes/claims').then((m) => ({ loader: m.claimsLoader(queryClient), Component: m.ClaimsRoute })) },
+                {
+                  path: 'claims/:id',
+                  lazy: () =>
+                    import('./routes/claim').then((m) => ({ loader: m.claimLoader(queryClient), Component: m.ClaimRoute, ErrorBoundary: m.ClaimErrorBoundary })),
+                },
+                { path: '*', Component: NotFoundRoute },
+              ],
+            },
+          ],
+        },
+      ],
+    },
+  ];
+}
+
+export function createAppRouter(queryClient: QueryClient) {
+  return createBrowserRouter(appRoutes(queryClient));
+}

@@ -1,0 +1,37 @@
+import { Navigate, Outlet, redirect, useLocation, useNavigate, type LoaderFunctionArgs } from 'react-router';
+import type { QueryClient } from '@tanstack/react-query';
+import { AppShell } from '@/components/layouts/app-shell';
+import { FullPageSpinner } from '@/components/ui/spinner';
+import { paths, signInPath } from '@/config/paths';
+import { authQueries, useMe } from '@/features/auth/api/get-me';
+import { useSignOut } from '@/features/auth/api/sign-out';
+
+/** Every signed-in screen sits under this route: no session, no screen. */
+export const appLayoutLoader =
+  (queryClient: QueryClient) =>
+  async ({ request }: LoaderFunctionArgs) => {
+    const me = await queryClient.ensureQueryData(authQueries.me());
+    if (!me) {
+      const url = new URL(request.url);
+      throw redirect(signInPath(url.pathname + url.search));
+    }
+    return null;
+  };
+
+export function AppLayoutRoute() {
+  const me = useMe();
+  const location = useLocation();
+  const navigate = useNavigate();
+  const signOut = useSignOut({ onSettled: () => navigate(paths.signIn, { replace: true }) });
+
+  if (me.data === null && !signOut.isPending) {
+    // The session ended while the page was open (idle limit, signed out elsewhere).
+    return <Navigate to={signInPath(location.pathname + location.search)} replace />;
+  }
+  if (!me.data) return <FullPageSpinner />;
+  return (
+    <AppShell user={me.data.user} organisation={me.data.organisation} onSignOut={() => signOut.mutate()} signingOut={signOut.isPending}>
+      <Outlet />
+    </AppShell>
+  );
+}

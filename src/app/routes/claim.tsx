@@ -1,0 +1,152 @@
+import { Link, isRouteErrorResponse, useParams, useRouteError, type LoaderFunctionArgs } from 'react-router';
+import type { QueryClient } from '@tanstack/react-query';
+import type { ClaimDetail } from '@shared/schemas/claim';
+import { flagLabel } from '@shared/calculations/flags';
+import { Alert } from '@/components/ui/alert';
+import { Card, CardBody, CardHeader } from '@/components/ui/card';
+import { Spinner } from '@/components/ui/spinner';
+import { paths } from '@/config/paths';
+import { errorMessage, isApiError } from '@/lib/api-client';
+import { formatCents } from '@/lib/format';
+import { claimQueries } from '@/features/claims/api/claim-queries';
+import { useClaim } from '@/features/claims/api/get-claim';
+import { useClaimValuation } from '@/features/claims/api/get-claim-valuation';
+import { ClaimAttachments } from '@/features/claims/components/claim-attachments';
+import { ClaimLines } from '@/features/claims/components/claim-lines';
+import { ClaimReadings } from '@/features/claims/components/claim-readings';
+import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge';
+import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
+import { ClaimComments, ClaimTimeline } from '@/features/claims/components/claim-timeline';
+import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
+
+export const claimLoader =
+  (queryClient: QueryClient) =>
+  async ({ params }: LoaderFunctionArgs) => {
+    const id = params.id ?? '';
+    // The valuation is computed on the server and may take longer: it loads beside the page.
+    void queryClient.prefetchQuery(claimQueries.valuation(id));
+    await queryClient.ensureQueryData(claimQueries.detail(id));
+    return null;
+  };
+
+function BackToClaims() {
+  return (
+    <Link to={paths.claims} className="inline-flex items-center gap-1 text-sm text-ink-700 underline-offset-2 hover:underline">
+      <span aria-hidden="true">←</span> Claims
+    </Link>
+  );
+}
+
+function ClaimHeading({ claim }: { claim: ClaimDetail }) {
+  return (
+    <div className="flex flex-wrap items-end justify-between gap-4">
+      <div>
+        <div className="flex flex-wrap items-center gap-3">
+          <h1 className="font-mono text-2xl font-semibold text-ink-900">{claim.number}</h1>
+          <ClaimStateBadge state={claim.state} />
+        </div>
+        <p className="mt-1 text-sm text-ink-700">
+          {claim.agencyName} · {claim.technicianName}
+          {claim.unit && ` · ${claim.unit.model.modelNumber} serial ${claim.unit.serial}`}
+        </p>
+        {claim.flags.length > 0 && (
+          <ul className="mt-2 flex flex-wrap gap-2" aria-label="Flags">
+            {claim.flags.map((f) => (
+              <li key={f} className="rounded-full bg-brass-100 px-2 py-0.5 text-xs font-medium text-brass-700">
+                {flagLabel(f)}
+              </li>
+            ))}
+          </ul>
+        )}
+      </div>
+      <dl className="flex gap-6 text-right">
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-ink-600">Claimed</dt>
+          <dd className="text-xl font-semibold tabular-nums">{formatCents(claim.claimedTotalCents, claim.currency)}</dd>
+        </div>
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-ink-600">Approved</dt>
+          <dd className="text-xl font-semibold tabular-nums">{formatCents(claim.approvedTotalCents, claim.currency)}</dd>
+        </div>
+      </dl>
+    </div>
+  );
+}
+
+function ValuationSection({ claimId }: { claimId: string }) {
+  const valuation = useClaimValuation(claimId);
+  if (valuation.data) return <ValuationBreakdown valuation={valuation.data} />;
+  return (
+    <Card aria-labelledby="claim-valuation">
+      <CardHeader id="claim-valuation" title="Valuation" />
+      <CardBody className="text-sm text-ink-700">
+        {valuation.isPending ? (
+          <Spinner label="Computing the valuation…" />
+        ) : (
+          <p>
+            The computed breakdown is not available{isApiError(valuation.error) && valuation.error.status !== 404 ? `: ${errorMessage(valuation.error)}` : '.'} The totals above are the
+            amounts stored on the claim.
+          </p>
+        )}
+      </CardBody>
+    </Card>
+  );
+}
+
+export function ClaimRoute() {
+  const { id = '' } = useParams();
+  const claim = useClaim(id);
+  const valuation = useClaimValuation(id);
+  if (!claim.data) {
+    return claim.isError ? <ClaimError error={claim.error} /> : <Spinner label="Loading the claim…" />;
+  }
+  const c = claim.data;
+  return (
+    <article className="space-y-5" aria-labelledby="claim-title">
+      <title>{`${c.number} · Fieldproof`}</title>
+      <BackToClaims />
+      <div id="claim-title">
+        <ClaimHeading claim={c} />
+      </div>
+      <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
+        <div className="space-y-5">
+          <ClaimStory claim={c} />
+          <ClaimLines claim={c} valuation={valuation.data} />
+          <ValuationSection claimId={c.id} />
+          <ClaimReadings claim={c} />
+          <ClaimAttachments claim={c} />
+        </div>
+        <div className="space-y-5">
+          <ClaimUnitCard claim={c} />
+          <ClaimSiteCard claim={c} />
+          <ClaimDatesCard claim={c} />
+          <ClaimTimeline claim={c} />
+          <ClaimComments claim={c} />
+        </div>
+      </div>
+    </article>
+  );
+}
+
+function ClaimError({ error }: { error: unknown }) {
+  const notFound = isApiError(error, 404) || (isRouteErrorResponse(error) && error.status === 404);
+  return (
+    <div className="space-y-4">
+      <title>{`${notFound ? 'Claim not found' : 'Claim unavailable'} · Fieldproof`}</title>
+      <BackToClaims />
+      <h1 className="text-2xl font-semibold text-ink-900">{notFound ? 'Claim not found' : 'The claim could not be loaded'}</h1>
+      {notFound ? (
+        <Alert tone="info">There is no claim at this address, or it is not visible to your organisation. Check the claim number and search the list.</Alert>
+      ) : (
+        <Alert tone="error">{errorMessage(error)}</Alert>
+      )}
+    </div>
+  );
+}
+
+/** Shown inside the shell when the loader fails, e.g. a claim id that is unknown or not this user's. */
+export function ClaimErrorBoundary() {
+  const error = useRouteError();
+  if (isApiError(error, 401)) throw error;
+  return <ClaimError error={error} />;
+}
