@@ -60,7 +60,8 @@ export function defineAbilityFor(user: SessionUser): AppAbility {
       can('read', 'Claim', own);
       can(['update', 'submit', 'withdraw', 'upload'], 'Claim', { ...own, state: editable });
       can('comment', 'Claim', { ...own, state: { $ne: 'withdrawn' } });
-      can('read', 'Attachment', { organisationId: org, uploadedBy: user.id });
+      // The claim's own read check (own claims) applies too, so this also covers evidence an agency admin added.
+      can('read', 'Attachment', { organisationId: org });
       can('read', ['Catalog', 'Unit']);
       can('read', 'User', { organisationId: org, id: user.id });
       can('read', 'Certification', { organisationId: org, userId: user.id });
@@ -107,7 +108,9 @@ export function defineAbilityFor(user: SessionUser): AppAbility {
       can('read', 'Unit');
       can(['read', 'create', 'update'], 'User', { organisationId: org });
       can('invite', 'User');
-      can(['read', 'create', 'update', 'delete'], 'Invitation');
+      // Invitations to the manufacturer itself, and the first admin of each agency it creates.
+      can(['read', 'create', 'update', 'delete'], 'Invitation', { organisationId: org });
+      can(['read', 'create', 'update', 'delete'], 'Invitation', { role: 'agency_admin' });
       break;
     }
   }

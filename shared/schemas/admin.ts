@@ -18,6 +18,15 @@ const optionalText = (max: number) =>
     .nullable()
     .transform((v) => (v === '' ? null : v));
 const id = (message = 'Choose one.') => z.string().min(1, message).max(64);
+/** An e-mail that may be left blank: '' is stored as null. */
+const optionalEmail = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .max(254, 'Keep it under 254 characters.')
+  .nullable()
+  .transform((v) => (v === '' ? null : v))
+  .pipe(z.email('Enter a valid e-mail address.').nullable());
 
 export const INVITATION_TTL_DAYS = 7;
 export const CERTIFICATION_WARNING_DAYS = 30;
@@ -178,7 +187,7 @@ export const longitudeSchema = z.number('Enter the longitude as a number.').min(
 
 const profileFields = {
   name: required(120, 'Enter the agency name.').min(2, 'Enter at least 2 characters.'),
-  contactEmail: emailSchema.nullable(),
+  contactEmail: optionalEmail,
   addressLine: optionalText(200),
   city: optionalText(80),
   region: optionalText(40),

@@ -1,0 +1,172 @@
+import { Router } from 'express';
+import type { AppDeps } from '../../lib/deps';
+import { requireCtx } from '../../lib/context';
+import { ForbiddenError } from '../../lib/errors';
+import { requireUser } from '../../middleware/authenticate';
+import { parseBody } from '../../middleware/validate';
+import { clientAddress } from '../../middleware/rate-limit';
+import {
+  createAgencySchema,
+  createFamilySchema,
+  createModelSchema,
+  createPartSchema,
+  createReadingSpecSchema,
+  createRepairCodeSchema,
+  createTermsSchema,
+  inviteAgencyAdminSchema,
+  inviteBodySchema,
+  updateAgencySchema,
+  updateFamilySchema,
+  updateModelSchema,
+  updatePartSchema,
+  updateReadingSpecSchema,
+  updateRepairCodeSchema,
+  updateTermsSchema,
+  updateUserSchema,
+} from '@shared/schemas/admin';
+import { createInvitationsService } from '../invitations/invitations.service';
+import { createUsersService, requireUserAdmin, roleRefusal, scopeRoles } from '../agency/users.service';
+import { createCatalogService } from './catalog.service';
+import { createAgenciesService } from './agencies.service';
+import { allowanceHistory, priceHistory } from './catalog.queries';
+
+/** /api/admin: the manufacturer admin's catalogue, agencies and contract terms, and manufacturer users. */
+export function adminRouter(deps: AppDeps): Router {
+  const catalog = createCatalogService(deps);
+  const invitations = createInvitationsService(deps);
+  const agencies = createAgenciesService(deps, invitations);
+  const usersService = createUsersService(deps);
+  const r = Router();
+  r.use(requireUser);
+  // Everything here is the manufacturer admin's: refuse others before reading any body.
+  r.use((req, _res, next) => {
+    const ctx = requireCtx(req);
+    if (ctx.user.organisationKind !== 'manufacturer' || !ctx.ability.can('update', 'Catalog') || !ctx.ability.can('create', 'Agency')) {
+      throw new ForbiddenError('Only a manufacturer admin may do this.');
+    }
+    next();
+  });
+  const ip = clientAddress;
+
+  // ---------------------------------------------------------------- catalogue
+  r.get('/families', (req, res) => {
+    res.json({ items: catalog.listFamilies(requireCtx(req)) });
+  });
+  r.post('/families', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(catalog.createFamily(ctx, parseBody(createFamilySchema, req.body), ip(req)));
+  });
+  r.patch('/families/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(catalog.updateFamily(ctx, req.params.id, parseBody(updateFamilySchema, req.body), ip(req)));
+  });
+
+  r.get('/models', (req, res) => {
+    res.json({ items: catalog.listModels(requireCtx(req)) });
+  });
+  r.post('/models', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(catalog.createModel(ctx, parseBody(createModelSchema, req.body), ip(req)));
+  });
+  r.patch('/models/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(catalog.updateModel(ctx, req.params.id, parseBody(updateModelSchema, req.body), ip(req)));
+  });
+  r.post('/models/:id/reading-specs', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(catalog.createReadingSpec(ctx, req.params.id, parseBody(createReadingSpecSchema, req.body), ip(req)));
+  });
+  r.patch('/models/:id/reading-specs/:specId', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(catalog.updateReadingSpec(ctx, req.params.id, req.params.specId, parseBody(updateReadingSpecSchema, req.body), ip(req)));
+  });
+  r.delete('/models/:id/reading-specs/:specId', (req, res) => {
+    catalog.deleteReadingSpec(requireCtx(req), req.params.id, req.params.specId, ip(req));
+    res.status(204).end();
+  });
+
+  r.get('/parts', (req, res) => {
+    res.json({ items: catalog.listParts(requireCtx(req)) });
+  });
+  r.post('/parts', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(catalog.createPart(ctx, parseBody(createPartSchema, req.body), ip(req)));
+  });
+  r.patch('/parts/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(catalog.updatePart(ctx, req.params.id, parseBody(updatePartSchema, req.body), ip(req)));
+  });
+  r.get('/parts/:id/prices', (req, res) => {
+    const ctx = requireCtx(req);
+    catalog.listFamilies(ctx); // same guard as every catalogue read
+    res.json({ items: priceHistory(deps.db, req.params.id) });
+  });
+
+  r.get('/repair-codes', (req, res) => {
+    res.json({ items: catalog.listRepairCodes(requireCtx(req)) });
+  });
+  r.post('/repair-codes', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(catalog.createRepairCode(ctx, parseBody(createRepairCodeSchema, req.body), ip(req)));
+  });
+  r.patch('/repair-codes/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(catalog.updateRepairCode(ctx, req.params.id, parseBody(updateRepairCodeSchema, req.body), ip(req)));
+  });
+  r.get('/repair-codes/:id/allowances', (req, res) => {
+    const ctx = requireCtx(req);
+    catalog.listFamilies(ctx);
+    res.json({ items: allowanceHistory(deps.db, req.params.id) });
+  });
+
+  // ---------------------------------------------------------------- agencies and contract terms
+  r.get('/agencies', (req, res) => {
+    res.json({ items: agencies.list(requireCtx(req)) });
+  });
+  r.post('/agencies', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(agencies.create(ctx, parseBody(createAgencySchema, req.body), ip(req)));
+  });
+  r.get('/agencies/:id', (req, res) => {
+    res.json(agencies.get(requireCtx(req), req.params.id));
+  });
+  r.patch('/agencies/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(agencies.update(ctx, req.params.id, parseBody(updateAgencySchema, req.body), ip(req)));
+  });
+  r.post('/agencies/:id/admin-invitation', (req, res) => {
+    const ctx = requireCtx(req);
+    const body = parseBody(inviteAgencyAdminSchema, req.body);
+    res.status(201).json(agencies.inviteAdmin(ctx, req.params.id, body.email, ip(req)));
+  });
+  r.get('/agencies/:id/terms', (req, res) => {
+    res.json({ items: agencies.listTerms(requireCtx(req), req.params.id) });
+  });
+  r.post('/agencies/:id/terms', (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(agencies.createTerms(ctx, req.params.id, parseBody(createTermsSchema, req.body), ip(req)));
+  });
+  r.patch('/agencies/:id/terms/:termsId', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(agencies.updateTerms(ctx, req.params.id, req.params.termsId, parseBody(updateTermsSchema, req.body), ip(req)));
+  });
+
+  // ---------------------------------------------------------------- manufacturer users
+  r.get('/users', (req, res) => {
+    res.json({ items: usersService.list(requireCtx(req), 'manufacturer') });
+  });
+  r.post('/users', (req, res) => {
+    const ctx = requireCtx(req);
+    requireUserAdmin(ctx, 'manufacturer');
+    const body = parseBody(inviteBodySchema, req.body);
+    if (!scopeRoles.manufacturer.includes(body.role)) throw roleRefusal('manufacturer');
+    res.status(201).json(invitations.invite(ctx, { organisationId: ctx.user.organisationId, role: body.role, email: body.email }, ip(req)));
+  });
+  r.patch('/users/:id', (req, res) => {
+    const ctx = requireCtx(req);
+    requireUserAdmin(ctx, 'manufacturer');
+    res.json(usersService.update(ctx, 'manufacturer', req.params.id, parseBody(updateUserSchema, req.body), ip(req)));
+  });
+
+  return r;
+}

@@ -1,0 +1,181 @@
+import { and, eq, isNull, sql } from 'drizzle-orm';
+import { tx, type Db } from '../../db/client';
+import { agencyTerms, organisations } from '../../db/schema/index';
+import type { AgencyTerms } from '../../db/schema/organisations';
+import type { AppDeps } from '../../lib/deps';
+import type { RequestContext } from '../../lib/context';
+import { writeAudit } from '../../lib/audit';
+import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../../lib/errors';
+import { newId } from '../../lib/ids';
+import { today } from '../../lib/clock';
+import { addDays } from '@shared/calculations/dates';
+import type { AgencyDetail, AgencyListItem, ContractTermsItem, UpdateAgencyBody, UpdateTermsBody } from '@shared/schemas/admin';
+import { createAgencySchema, createTermsSchema } from '@shared/schemas/admin';
+import type { z } from 'zod';
+import { resolveAddress } from '../agency/postal-code.service';
+import { updateOrganisationProfile } from '../agency/agency.service';
+import { countOtherActive } from '../agency/agency.queries';
+import type { InvitationsService } from '../invitations/invitations.service';
+import { getAgencyDetail, getTerms, listAgencies, listTerms, overlappingTerms } from './agencies.queries';
+
+type CreateAgency = z.infer<typeof createAgencySchema>;
+type CreateTerms = z.infer<typeof createTermsSchema>;
+
+const period = (t: { effectiveFrom: string; effectiveTo: string | null }) => (t.effectiveTo ? `${t.effectiveFrom} to ${t.effectiveTo}` : `${t.effectiveFrom} with no end date`);
+
+function overlapError(other: AgencyTerms): AppError {
+  const message = `These dates overlap the contract terms in force from ${period(other)}. Terms of one agency cannot overlap: ${
+    other.effectiveTo ? 'choose dates outside that period' : 'end those terms first (or tick "end the terms before this")'
+  }.`;
+  return new AppError(409, 'terms_overlap', message, { effectiveFrom: message });
+}
+
+/** Agencies and their contract terms, as the manufacturer admin keeps them. */
+export function createAgenciesService(deps: AppDeps, invitations: InvitationsService) {
+  const { db, clock } = deps;
+  const nowIso = () => clock.now().toISOString();
+
+  function guard(ctx: RequestContext, subject: 'Agency' | 'ContractTerms', action: 'read' | 'create' | 'update'): void {
+    if (ctx.user.organisationKind !== 'manufacturer' || !ctx.ability.can('create', subject) || !ctx.ability.can(action, subject)) {
+      throw new ForbiddenError('Only a manufacturer admin manages agencies and their contract terms.');
+    }
+  }
+  function audit(t: Db, ctx: RequestContext, action: string, recordType: string, recordId: string, ip: string, detail: Record<string, unknown>): void {
+    writeAudit(t, clock, { actorId: ctx.user.id, organisationId: ctx.user.organisationId, action, recordType, recordId, outcome: 'success', ip, detail });
+  }
+  function requireAgency(t: Db, id: string) {
+    const row = t.select().from(organisations).where(and(eq(organisations.id, id), eq(organisations.kind, 'agency'))).get();
+    if (!row) throw new NotFoundError('No such agency.');
+    return row;
+  }
+  function refuseDuplicateName(t: Db, name: string, exceptId?: string): void {
+    const same = t
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(and(eq(organisations.kind, 'agency'), sql`lower(${organisations.name}) = lower(${name})`))
+      .all()
+      .filter((r) => r.id !== exceptId);
+    if (same.length) throw new AppError(409, 'duplicate', 'An agency with this name already exists.', { name: 'An agency with this name already exists.' });
+  }
+  const detail = (ctx: RequestContext, id: string) => getAgencyDetail(db, ctx.ability, id, today(clock), nowIso()) as AgencyDetail;
+
+  return {
+    list(ctx: RequestContext): AgencyListItem[] {
+      guard(ctx, 'Agency', 'read');
+      return listAgencies(db, ctx.ability, today(clock), nowIso());
+    },
+
+    get(ctx: RequestContext, id: string): AgencyDetail {
+      guard(ctx, 'Agency', 'read');
+      const d = getAgencyDetail(db, ctx.ability, id, today(clock), nowIso());
+      if (!d) throw new NotFoundError('No such agency.');
+      return d;
+    },
+
+    /** The agency and the invitation of its first admin, in one transaction. */
+    create(ctx: RequestContext, body: CreateAgency, ip: string): AgencyDetail {
+      guard(ctx, 'Agency', 'create');
+      const id = newId();
+      tx(db, (t) => {
+        refuseDuplicateName(t, body.name);
+        const address = resolveAddress(
+          { postalCode: null, city: null, region: null, country: 'US', latitude: null, longitude: null },
+          { postalCode: body.postalCode, city: body.city, region: body.region, latitude: body.latitude ?? null, longitude: body.longitude ?? null },
+        );
+        const now = nowIso();
+        t.insert(organisations)
+          .values({ id, kind: 'agency', name: body.name, contactEmail: body.contactEmail, addressLine: body.addressLine, timeZone: body.timeZone, ...address, active: true, createdAt: now, updatedAt: now })
+          .run();
+        audit(t, ctx, 'agency.create', 'Agency', id, ip, { name: body.name, postalCode: address.postalCode, adminEmail: body.adminEmail });
+        invitations.inviteIn(t, ctx, { organisationId: id, role: 'agency_admin', email: body.adminEmail }, ip);
+      });
+      deps.outbox.kick();
+      return detail(ctx, id);
+    },
+
+    update(ctx: RequestContext, id: string, body: UpdateAgencyBody, ip: string): AgencyDetail {
+      guard(ctx, 'Agency', 'update');
+      tx(db, (t) => {
+        requireAgency(t, id);
+        if (body.name) refuseDuplicateName(t, body.name, id);
+        updateOrganisationProfile(t, deps, id, body, { actorId: ctx.user.id, ip });
+      });
+      return detail(ctx, id);
+    },
+
+    /** Invites an admin to an agency that has no active admin (its first, or a replacement). */
+    inviteAdmin(ctx: RequestContext, id: string, email: string, ip: string): AgencyDetail {
+      guard(ctx, 'Agency', 'update');
+      tx(db, (t) => {
+        requireAgency(t, id);
+        if (countOtherActive(t, id, 'agency_admin', '') > 0) {
+          throw new ConflictError('This agency already has an active agency admin, who invites the agency’s own people.', 'has_admin');
+        }
+        invitations.inviteIn(t, ctx, { organisationId: id, role: 'agency_admin', email }, ip);
+      });
+      deps.outbox.kick();
+      return detail(ctx, id);
+    },
+
+    listTerms(ctx: RequestContext, agencyId: string): ContractTermsItem[] {
+      guard(ctx, 'ContractTerms', 'read');
+      requireAgency(db, agencyId);
+      return listTerms(db, agencyId);
+    },
+
+    /**
+     * New terms for a period. Periods of one agency never overlap; with closePrevious the
+     * open-ended terms that started earlier end the day before the new ones start.
+     */
+    createTerms(ctx: RequestContext, agencyId: string, body: CreateTerms, ip: string): ContractTermsItem {
+      guard(ctx, 'ContractTerms', 'create');
+      const id = newId();
+      tx(db, (t) => {
+        requireAgency(t, agencyId);
+        const { closePrevious, ...fields } = body;
+        if (closePrevious) {
+          const open = t
+            .select()
+            .from(agencyTerms)
+            .where(and(eq(agencyTerms.agencyId, agencyId), isNull(agencyTerms.effectiveTo), sql`${agencyTerms.effectiveFrom} < ${fields.effectiveFrom}`))
+            .get();
+          if (open) {
+            const end = addDays(fields.effectiveFrom, -1);
+            t.update(agencyTerms).set({ effectiveTo: end }).where(eq(agencyTerms.id, open.id)).run();
+            audit(t, ctx, 'contract_terms.update', 'ContractTerms', open.id, ip, { agencyId, effectiveTo: { from: null, to: end } });
+          }
+        }
+        const other = overlappingTerms(t, agencyId, fields.effectiveFrom, fields.effectiveTo);
+        if (other) throw overlapError(other);
+        t.insert(agencyTerms)
+          .values({ id, agencyId, ...fields, createdAt: nowIso() })
+          .run();
+        audit(t, ctx, 'contract_terms.create', 'ContractTerms', id, ip, { agencyId, ...fields });
+      });
+      return getTerms(db, agencyId, id) as ContractTermsItem;
+    },
+
+    updateTerms(ctx: RequestContext, agencyId: string, termsId: string, body: UpdateTermsBody, ip: string): ContractTermsItem {
+      guard(ctx, 'ContractTerms', 'update');
+      tx(db, (t) => {
+        requireAgency(t, agencyId);
+        const row = getTerms(t, agencyId, termsId);
+        if (!row) throw new NotFoundError('No such contract terms.');
+        const next = { ...row, ...Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined)) } as AgencyTerms;
+        if (next.effectiveTo !== null && next.effectiveTo < next.effectiveFrom) {
+          throw new AppError(400, 'validation_failed', 'Some fields need attention.', { effectiveTo: 'The end date cannot be before the start date.' });
+        }
+        const other = overlappingTerms(t, agencyId, next.effectiveFrom, next.effectiveTo, termsId);
+        if (other) throw overlapError(other);
+        const changes: Record<string, unknown> = {};
+        for (const [k, v] of Object.entries(body)) if (v !== undefined && row[k as keyof AgencyTerms] !== v) changes[k] = { from: row[k as keyof AgencyTerms], to: v };
+        if (Object.keys(changes).length === 0) return;
+        t.update(agencyTerms).set(body).where(eq(agencyTerms.id, termsId)).run();
+        audit(t, ctx, 'contract_terms.update', 'ContractTerms', termsId, ip, { agencyId, ...changes });
+      });
+      return getTerms(db, agencyId, termsId) as ContractTermsItem;
+    },
+  };
+}
+
+export type AgenciesService = ReturnType<typeof createAgenciesService>;
