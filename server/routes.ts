@@ -1,11 +1,20 @@
 import type { Router } from 'express';
 import type { AppDeps } from './lib/deps';
+import { claimsRouter } from './modules/claims/claims.router';
+import { unitsRouter } from './modules/units/units.router';
+import { catalogRouter } from './modules/catalog/catalog.router';
+import { homeRouter } from './modules/home/home.router';
+import { devRouter } from './modules/dev/dev.router';
 
 /**
  * Every API module is mounted here, in one list, so the authorization-matrix test can
  * compare the routes Express knows with the routes its table covers.
  */
 export function mountApi(api: Router, deps: AppDeps): void {
-  void api;
-  void deps;
+  api.use('/claims', claimsRouter(deps));
+  api.use('/units', unitsRouter(deps));
+  api.use('/catalog', catalogRouter(deps));
+  api.use('/home', homeRouter(deps));
+  const dev = devRouter(deps);
+  if (dev) api.use('/dev', dev);
 }

@@ -1,0 +1,439 @@
+import { and, asc, desc, eq, gte, lte, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
+import { subject } from '@casl/ability';
+import type { Db } from '../../db/client';
+import {
+  attachments,
+  claimEvents,
+  claimLaborLines,
+  claimPartLines,
+  claimReadings,
+  claimTravel,
+  claims,
+  comments,
+  models,
+  organisations,
+  parts,
+  productFamilies,
+  repairCodes,
+  sites,
+  units,
+  users,
+  type Claim,
+} from '../../db/schema/index';
+import { abilityToSql } from '../../lib/casl-to-sql';
+import { ValidationError } from '../../lib/errors';
+import type { Action, AppAbility } from '@shared/permissions/ability';
+import type { ClaimDetail, ClaimListItem, ClaimListQuery } from '@shared/schemas/claim';
+
+/** The only claim columns a CASL rule may constrain. */
+export const claimScopeColumns = { agencyId: claims.agencyId, technicianId: claims.technicianId, state: claims.state, id: claims.id };
+
+/** The user's CASL rules for (action, Claim) as one SQL condition. */
+export function claimScope(ability: AppAbility, action: Action = 'read'): SQL {
+  return abilityToSql(ability, action, 'Claim', claimScopeColumns);
+}
+
+/**
+ * A plain claim row (or its scope fields) tagged for CASL checks. AppAbility types plain
+ * subjects as Record<string, unknown>, which a tagged row type does not satisfy, hence the cast.
+ */
+export function claimSubject(row: { agencyId: string; technicianId: string; state: string; id?: string }): Record<string, unknown> {
+  return subject('Claim', { ...row }) as unknown as Record<string, unknown>;
+}
+
+/** One claim row the user may read, or undefined (the caller answers 404). */
+export function findReadableClaim(db: Db, ability: AppAbility, id: string): Claim | undefined {
+  return db
+    .select()
+    .from(claims)
+    .where(and(eq(claims.id, id), claimScope(ability)))
+    .get();
+}
+
+// ---- list ----------------------------------------------------------------------------------
+
+type SortKey = ClaimListQuery['sort'];
+type SortValue = string | number;
+
+/** Nullable sort columns sort as '' so keyset comparisons never meet NULL. */
+const sortExpr: Record<SortKey, SQL> = {
+  createdAt: sql`${claims.createdAt}`,
+  submittedAt: sql`coalesce(${claims.submittedAt}, '')`,
+  repairDate: sql`coalesce(${claims.repairDate}, '')`,
+  number: sql`${claims.number}`,
+  claimedTotalCents: sql`${claims.claimedTotalCents}`,
+  state: sql`${claims.state}`,
+};
+const numericSort = new Set<SortKey>(['claimedTotalCents']);
+
+interface Cursor {
+  sort: SortKey;
+  dir: 'asc' | 'desc';
+  value: SortValue;
+  id: string;
+}
+
+/** Opaque cursor: base64url of JSON [sort, dir, last sort value, last id]. */
+export function encodeCursor(c: Cursor): string {
+  return Buffer.from(JSON.stringify([c.sort, c.dir, c.value, c.id]), 'utf8').toString('base64url');
+}
+
+export function decodeCursor(raw: string, sort: SortKey, dir: 'asc' | 'desc'): Cursor {
+  const bad = () => new ValidationError('Some filters are not valid.', { cursor: 'This page link is no longer valid; start from the first page.' });
+  let parsed: unknown;
+  try {
+    if (!/^[A-Za-z0-9_-]+$/.test(raw)) throw bad();
+    parsed = JSON.parse(Buffer.from(raw, 'base64url').toString('utf8'));
+  } catch {
+    throw bad();
+  }
+  if (!Array.isArray(parsed) || parsed.length !== 4) throw bad();
+  const [s, d, value, id] = parsed as unknown[];
+  if (s !== sort || d !== dir || typeof id !== 'string' || id.length === 0 || id.length > 64) throw bad();
+  if (numericSort.has(sort) ? typeof value !== 'number' || !Number.isSafeInteger(value) : typeof value !== 'string' || value.length > 64) throw bad();
+  return { sort, dir, value: value as SortValue, id };
+}
+
+function escapeLike(s: string): string {
+  return s.replace(/[\\%_]/g, (m) => `\\${m}`);
+}
+
+const technician = alias(users, 'technician');
+
+export const listItemColumns = {
+  id: claims.id,
+  number: claims.number,
+  state: claims.state,
+  agencyId: claims.agencyId,
+  agencyName: organisations.name,
+  technicianId: claims.technicianId,
+  technicianName: technician.name,
+  serial: units.serial,
+  modelNumber: models.modelNumber,
+  siteName: sites.name,
+  failureDate: claims.failureDate,
+  repairDate: claims.repairDate,
+  submittedAt: claims.submittedAt,
+  createdAt: claims.createdAt,
+  claimedTotalCents: claims.claimedTotalCents,
+  approvedTotalCents: claims.approvedTotalCents,
+  currency: claims.currency,
+  flags: claims.flags,
+};
+
+/** Filters of the list (never the scope): ANDed with the scope, so they only narrow. */
+function listFilters(q: ClaimListQuery): SQL[] {
+  const where: SQL[] = [];
+  if (q.state) where.push(eq(claims.state, q.state));
+  if (q.agency) where.push(eq(claims.agencyId, q.agency));
+  if (q.from) where.push(gte(claims.repairDate, q.from));
+  if (q.to) where.push(lte(claims.repairDate, q.to));
+  if (q.q) {
+    const like = `%${escapeLike(q.q)}%`;
+    where.push(sql`(${claims.number} like ${like} escape '\\' or ${units.serial} like ${like} escape '\\')`);
+  }
+  return where;
+}
+
+export interface ClaimListPage {
+  items: ClaimListItem[];
+  nextCursor: string | null;
+  total: number;
+}
+
+/**
+ * One page of the claims the user may read: the scope from the user's CASL rules, the filters,
+ * a keyset cursor on (sort value, id), joined names in the same statement; and the total under
+ * the same scope and filters.
+ */
+export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): ClaimListPage {
+  const scope = claimScope(ability);
+  const filters = listFilters(q);
+  const key = sortExpr[q.sort];
+  const order = q.dir === 'asc' ? asc : desc;
+  const where = [scope, ...filters];
+  if (q.cursor) {
+    const c = decodeCursor(q.cursor, q.sort, q.dir);
+    const v = c.value;
+    where.push(
+      q.dir === 'asc'
+        ? (or(sql`${key} > ${v}`, and(sql`${key} = ${v}`, sql`${claims.id} > ${c.id}`)) as SQL)
+        : (or(sql`${key} < ${v}`, and(sql`${key} = ${v}`, sql`${claims.id} < ${c.id}`)) as SQL),
+    );
+  }
+  const rows = db
+    .select({ ...listItemColumns, sortValue: sql<SortValue>`${key}` })
+    .from(claims)
+    .innerJoin(organisations, eq(organisations.id, claims.agencyId))
+    .innerJoin(technician, eq(technician.id, claims.technicianId))
+    .leftJoin(units, eq(units.id, claims.unitId))
+    .leftJoin(models, eq(models.id, units.modelId))
+    .leftJoin(sites, eq(sites.id, claims.siteId))
+    .where(and(...where))
+    .orderBy(order(key), order(claims.id))
+    .limit(q.limit + 1)
+    .all();
+
+  const countBase = db.select({ n: sql<number>`count(*)` }).from(claims);
+  const countRow = (q.q ? countBase.leftJoin(units, eq(units.id, claims.unitId)) : countBase).where(and(scope, ...filters)).get();
+
+  const more = rows.length > q.limit;
+  const page = more ? rows.slice(0, q.limit) : rows;
+  const last = page[page.length - 1];
+  const items = page.map(({ sortValue: _s, ...item }) => item as ClaimListItem);
+  return {
+    items,
+    nextCursor: more && last ? encodeCursor({ sort: q.sort, dir: q.dir, value: last.sortValue, id: last.id }) : null,
+    total: countRow?.n ?? 0,
+  };
+}
+
+/** Scoped list rows for a given extra condition (home page, unit history), newest or oldest first. */
+export function listClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefined, opts: { order: 'oldest_submitted' | 'oldest_created' | 'newest_repair' | 'oldest_decided'; limit: number }): ClaimListItem[] {
+  const orderBy =
+    opts.order === 'oldest_submitted'
+      ? [asc(sql`coalesce(${claims.submittedAt}, ${claims.createdAt})`), asc(claims.id)]
+      : opts.order === 'oldest_created'
+        ? [asc(claims.createdAt), asc(claims.id)]
+        : opts.order === 'oldest_decided'
+          ? [asc(sql`coalesce(${claims.decidedAt}, ${claims.updatedAt})`), asc(claims.id)]
+          : [desc(sql`coalesce(${claims.repairDate}, '')`), desc(claims.id)];
+  return db
+    .select(listItemColumns)
+    .from(claims)
+    .innerJoin(organisations, eq(organisations.id, claims.agencyId))
+    .innerJoin(technician, eq(technician.id, claims.technicianId))
+    .leftJoin(units, eq(units.id, claims.unitId))
+    .leftJoin(models, eq(models.id, units.modelId))
+    .leftJoin(sites, eq(sites.id, claims.siteId))
+    .where(extra ? and(claimScope(ability), extra) : claimScope(ability))
+    .orderBy(...orderBy)
+    .limit(opts.limit)
+    .all() as ClaimListItem[];
+}
+
+export function countClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefined): number {
+  const row = db
+    .select({ n: sql<number>`count(*)` })
+    .from(claims)
+    .where(extra ? and(claimScope(ability), extra) : claimScope(ability))
+    .get();
+  return row?.n ?? 0;
+}
+
+// ---- detail --------------------------------------------------------------------------------
+
+export type ClaimDetailData = Omit<ClaimDetail, 'allowedActions'>;
+
+/** Everything the claim page shows, for a row already known to be readable. */
+export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
+  const reviewer = alias(users, 'reviewer');
+  const head = db
+    .select({
+      agencyName: organisations.name,
+      technicianName: technician.name,
+      reviewerName: reviewer.name,
+    })
+    .from(claims)
+    .innerJoin(organisations, eq(organisations.id, claims.agencyId))
+    .innerJoin(technician, eq(technician.id, claims.technicianId))
+    .leftJoin(reviewer, eq(reviewer.id, claims.reviewerId))
+    .where(eq(claims.id, row.id))
+    .get();
+
+  const unit = row.unitId
+    ? db
+        .select({
+          id: units.id,
+          serial: units.serial,
+          revision: units.revision,
+          shipDate: units.shipDate,
+          installDate: units.installDate,
+          modelId: models.id,
+          modelNumber: models.modelNumber,
+          modelName: models.name,
+          familyId: productFamilies.id,
+          familyName: productFamilies.name,
+        })
+        .from(units)
+        .innerJoin(models, eq(models.id, units.modelId))
+        .innerJoin(productFamilies, eq(productFamilies.id, models.familyId))
+        .where(eq(units.id, row.unitId))
+        .get()
+    : undefined;
+
+  const site = row.siteId
+    ? db
+        .select({
+          id: sites.id,
+          name: sites.name,
+          addressLine: sites.addressLine,
+          city: sites.city,
+          region: sites.region,
+          postalCode: sites.postalCode,
+          latitude: sites.latitude,
+          longitude: sites.longitude,
+        })
+        .from(sites)
+        .where(eq(sites.id, row.siteId))
+        .get()
+    : undefined;
+
+  const laborLines = db
+    .select({
+      id: claimLaborLines.id,
+      position: claimLaborLines.position,
+      repairCodeId: claimLaborLines.repairCodeId,
+      repairCode: repairCodes.code,
+      description: repairCodes.description,
+      allowedHours: repairCodes.allowedHours,
+      hoursWorked: claimLaborLines.hoursWorked,
+      overtime: claimLaborLines.overtime,
+      note: claimLaborLines.note,
+      approvedHours: claimLaborLines.approvedHours,
+      adjustmentReason: claimLaborLines.adjustmentReason,
+      approvedAmountCents: claimLaborLines.approvedAmountCents,
+    })
+    .from(claimLaborLines)
+    .innerJoin(repairCodes, eq(repairCodes.id, claimLaborLines.repairCodeId))
+    .where(eq(claimLaborLines.claimId, row.id))
+    .orderBy(asc(claimLaborLines.position))
+    .all();
+
+  const travel = db
+    .select({
+      roundTripMiles: claimTravel.roundTripMiles,
+      travelHours: claimTravel.travelHours,
+      approvedAmountCents: claimTravel.approvedAmountCents,
+      adjustmentReason: claimTravel.adjustmentReason,
+    })
+    .from(claimTravel)
+    .where(eq(claimTravel.claimId, row.id))
+    .get();
+
+  const partLines = db
+    .select({
+      id: claimPartLines.id,
+      position: claimPartLines.position,
+      partId: claimPartLines.partId,
+      partNumber: parts.partNumber,
+      description: parts.description,
+      listPriceCents: parts.listPriceCents,
+      returnRequired: parts.returnRequired,
+      quantity: claimPartLines.quantity,
+      approvedQuantity: claimPartLines.approvedQuantity,
+      approvedAmountCents: claimPartLines.approvedAmountCents,
+      adjustmentReason: claimPartLines.adjustmentReason,
+      returnStatus: claimPartLines.returnStatus,
+      carrier: claimPartLines.carrier,
+      trackingNumber: claimPartLines.trackingNumber,
+      receivedCondition: claimPartLines.receivedCondition,
+    })
+    .from(claimPartLines)
+    .innerJoin(parts, eq(parts.id, claimPartLines.partId))
+    .where(eq(claimPartLines.claimId, row.id))
+    .orderBy(asc(claimPartLines.position))
+    .all();
+
+  const readings = db
+    .select({ id: claimReadings.id, key: claimReadings.key, phase: claimReadings.phase, value: claimReadings.value, unit: claimReadings.unit })
+    .from(claimReadings)
+    .where(eq(claimReadings.claimId, row.id))
+    .orderBy(asc(claimReadings.key), desc(claimReadings.phase))
+    .all();
+
+  const files = db
+    .select({
+      id: attachments.id,
+      role: attachments.role,
+      originalName: attachments.originalName,
+      contentType: attachments.contentType,
+      sizeBytes: attachments.sizeBytes,
+      createdAt: attachments.createdAt,
+      thumbnailKey: attachments.thumbnailKey,
+    })
+    .from(attachments)
+    .where(eq(attachments.claimId, row.id))
+    .orderBy(asc(attachments.createdAt))
+    .all()
+    .map(({ thumbnailKey, ...a }) => ({ ...a, hasThumbnail: thumbnailKey !== null }));
+
+  const actor = alias(users, 'actor');
+  const events = db
+    .select({
+      id: claimEvents.id,
+      type: claimEvents.type,
+      fromState: claimEvents.fromState,
+      toState: claimEvents.toState,
+      reason: claimEvents.reason,
+      comment: claimEvents.comment,
+      at: claimEvents.at,
+      actorName: actor.name,
+    })
+    .from(claimEvents)
+    .leftJoin(actor, eq(actor.id, claimEvents.actorId))
+    .where(eq(claimEvents.claimId, row.id))
+    .orderBy(asc(claimEvents.at), asc(claimEvents.id))
+    .all();
+
+  const author = alias(users, 'author');
+  const authorOrg = alias(organisations, 'author_org');
+  const commentRows = db
+    .select({ id: comments.id, body: comments.body, createdAt: comments.createdAt, authorName: author.name, authorOrganisation: authorOrg.name })
+    .from(comments)
+    .innerJoin(author, eq(author.id, comments.authorId))
+    .innerJoin(authorOrg, eq(authorOrg.id, author.organisationId))
+    .where(eq(comments.claimId, row.id))
+    .orderBy(asc(comments.createdAt), asc(comments.id))
+    .all();
+
+  return {
+    id: row.id,
+    number: row.number,
+    state: row.state,
+    agencyId: row.agencyId,
+    agencyName: head?.agencyName ?? '',
+    technicianId: row.technicianId,
+    technicianName: head?.technicianName ?? '',
+    serial: unit?.serial ?? null,
+    modelNumber: unit?.modelNumber ?? null,
+    siteName: site?.name ?? null,
+    failureDate: row.failureDate,
+    repairDate: row.repairDate,
+    submittedAt: row.submittedAt,
+    createdAt: row.createdAt,
+    claimedTotalCents: row.claimedTotalCents,
+    approvedTotalCents: row.approvedTotalCents,
+    currency: row.currency,
+    flags: row.flags,
+    version: row.version,
+    complaint: row.complaint,
+    cause: row.cause,
+    correction: row.correction,
+    preAuthorization: row.preAuthorization,
+    resubmissionCount: row.resubmissionCount,
+    firstSubmittedAt: row.firstSubmittedAt,
+    decidedAt: row.decidedAt,
+    paidAt: row.paidAt,
+    reviewerName: head?.reviewerName ?? null,
+    unit: unit
+      ? {
+          id: unit.id,
+          serial: unit.serial,
+          revision: unit.revision,
+          shipDate: unit.shipDate,
+          installDate: unit.installDate,
+          model: { id: unit.modelId, modelNumber: unit.modelNumber, name: unit.modelName, familyId: unit.familyId, familyName: unit.familyName },
+        }
+      : null,
+    site: site ?? null,
+    laborLines,
+    travel: travel ?? null,
+    partLines,
+    readings,
+    attachments: files,
+    events,
+    comments: commentRows,
+  };
+}

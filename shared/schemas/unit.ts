@@ -1,0 +1,20 @@
+import { z } from 'zod';
+import type { CoverageResult } from '../calculations/coverage';
+import type { ClaimListItem } from './claim';
+
+/** GET /api/units/:serial?on=YYYY-MM-DD */
+export const unitLookupQuerySchema = z.object({
+  on: z.iso.date('Use a date like 2026-03-31.').optional(),
+});
+
+export interface UnitLookup {
+  unit: { id: string; serial: string; revision: string; shipDate: string; installDate: string | null };
+  model: { id: string; modelNumber: string; name: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number };
+  family: { id: string; code: string; name: string; fuel: 'gas' | 'electric' };
+  site: null | { id: string; name: string; addressLine: string; city: string; region: string; postalCode: string; latitude: number; longitude: number };
+  /** The date coverage is judged on (the query's `on`, else today). */
+  on: string;
+  coverage: CoverageResult;
+  /** Earlier claims on this unit that this user may see, newest repair first. */
+  priorClaims: ClaimListItem[];
+}

@@ -1,0 +1,56 @@
+/** Request contracts of the workflow endpoints, shared by the client forms and the server. */
+import { z } from 'zod';
+import { claimActions } from './claim-machine';
+import type { ClaimAction } from '../permissions/ability';
+
+const version = z.number('Send the version you saw.').int().min(1);
+
+/** POST /api/claims/:id/transitions. Reason and comment are checked per move by the machine's guards. */
+export const transitionSchema = z.strictObject({
+  type: z.enum(claimActions as [ClaimAction, ...ClaimAction[]], 'Unknown move.'),
+  version,
+  reason: z.string().trim().max(60).nullable().optional(),
+  comment: z.string().trim().max(4000, 'Keep it under 4000 characters.').nullable().optional(),
+});
+export type TransitionInput = z.infer<typeof transitionSchema>;
+
+/** POST /api/claims/:id/comments */
+export const commentSchema = z.strictObject({
+  body: z.string().trim().min(1, 'Write a comment.').max(4000, 'Keep it under 4000 characters.'),
+});
+export type CommentInput = z.infer<typeof commentSchema>;
+
+const reason = z.string().trim().max(500, 'Keep it under 500 characters.').nullable();
+
+/**
+ * POST /api/claims/:id/adjustments: a reviewer's line decisions while the claim is in review.
+ * A line is adjusted with a value and a reason; sending both as null clears the adjustment.
+ */
+export const adjustmentsSchema = z.strictObject({
+  version,
+  laborLines: z
+    .array(
+      z.strictObject({
+        id: z.string().min(1),
+        approvedHours: z.number().min(0).max(24).nullable().optional(),
+        approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable().optional(),
+        reason,
+      }),
+    )
+    .max(20)
+    .optional(),
+  partLines: z
+    .array(
+      z.strictObject({
+        id: z.string().min(1),
+        approvedQuantity: z.number().int().min(0).max(99).nullable().optional(),
+        approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable().optional(),
+        reason,
+      }),
+    )
+    .max(40)
+    .optional(),
+  /** The whole trip (distance and time) approved as one amount. */
+  travel: z.strictObject({ approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable(), reason }).optional(),
+});
+export type AdjustmentsInput = z.infer<typeof adjustmentsSchema>;
