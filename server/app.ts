@@ -21,6 +21,8 @@ export interface CreateAppOptions {
   sink?: MailSink | null;
   /** Serves the client after the API: static build in production, Vite middleware in development. */
   client?: RequestHandler[];
+  /** Overrides of the sign-in and reset throttling limits (per app instance). */
+  authLimits?: AppDeps['authLimits'];
 }
 
 export interface App {
@@ -39,6 +41,7 @@ export function createApp(opts: CreateAppOptions): App {
     tokens: new SessionTokens(opts.env.SESSION_SECRET),
     sink: opts.sink ?? null,
     secureCookies: opts.env.COOKIE_SECURE ?? opts.env.NODE_ENV === 'production',
+    authLimits: opts.authLimits,
   };
 
   const app = express();

@@ -1,5 +1,6 @@
 import type { Router } from 'express';
 import type { AppDeps } from './lib/deps';
+import { authRouter } from './modules/auth/auth.router';
 import { claimsRouter } from './modules/claims/claims.router';
 import { unitsRouter } from './modules/units/units.router';
 import { catalogRouter } from './modules/catalog/catalog.router';
@@ -11,6 +12,7 @@ import { devRouter } from './modules/dev/dev.router';
  * compare the routes Express knows with the routes its table covers.
  */
 export function mountApi(api: Router, deps: AppDeps): void {
+  api.use('/auth', authRouter(deps, { limits: deps.authLimits }));
   api.use('/claims', claimsRouter(deps));
   api.use('/units', unitsRouter(deps));
   api.use('/catalog', catalogRouter(deps));

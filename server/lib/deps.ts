@@ -4,6 +4,7 @@ import type { Clock } from './clock';
 import type { OutboxDispatcher } from './mail/outbox';
 import type { MailSink } from './mail/sink';
 import type { SessionTokens } from './session';
+import type { AuthLimits } from '../modules/auth/auth.service';
 
 /** What every module receives: built once in createApp, never a global. */
 export interface AppDeps {
@@ -15,4 +16,6 @@ export interface AppDeps {
   /** The in-process SMTP sink when no SMTP_URL is configured (development mailbox). */
   sink: MailSink | null;
   secureCookies: boolean;
+  /** Sign-in and reset throttling overrides; the auth router builds its limiters from these per app. */
+  authLimits?: Partial<AuthLimits>;
 }

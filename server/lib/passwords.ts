@@ -1,5 +1,5 @@
 import bcrypt from 'bcryptjs';
-import { createHmac } from 'node:crypto';
+import { createHmac, randomBytes } from 'node:crypto';
 
 /**
  * bcrypt reads only the first 72 bytes, so the password is first reduced to
@@ -18,8 +18,14 @@ export async function verifyPassword(password: string, hash: string, pepper: str
 }
 
 /** A real hash of a random secret, compared when the account is unknown so timing matches. */
-let dummyHash: string | null = null;
+const dummyHashes = new Map<string, string>();
 export function dummyPasswordHash(pepper: string, cost = 10): string {
-  if (!dummyHash) dummyHash = hashPassword('no-such-account-' + Math.random(), pepper, cost);
-  return dummyHash;
+  // Keyed by pepper and cost: one process may hold apps with different settings (tests).
+  const key = `${cost}:${pepper}`;
+  let hash = dummyHashes.get(key);
+  if (!hash) {
+    hash = hashPassword('no-such-account-' + randomBytes(16).toString('hex'), pepper, cost);
+    dummyHashes.set(key, hash);
+  }
+  return hash;
 }

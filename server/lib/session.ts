@@ -14,6 +14,8 @@ export interface SessionClaims {
   sv: number;
   /** When the user signed in (seconds): the 12-hour absolute limit counts from here. */
   at: number;
+  /** The role the session was issued for: a role change ends the session even if the version was not bumped. */
+  ro: string;
   iat: number;
   exp: number;
 }
@@ -24,9 +26,9 @@ export class SessionTokens {
     this.key = new TextEncoder().encode(secret);
   }
 
-  async issue(userId: string, sessionVersion: number, authTime: number, nowSeconds: number): Promise<string> {
+  async issue(userId: string, sessionVersion: number, authTime: number, nowSeconds: number, role: string): Promise<string> {
     const exp = Math.min(nowSeconds + IDLE_SECONDS, authTime + ABSOLUTE_SECONDS);
-    return new SignJWT({ sv: sessionVersion, at: authTime })
+    return new SignJWT({ sv: sessionVersion, at: authTime, ro: role })
       .setProtectedHeader({ alg: ALGORITHM, typ: 'JWT' })
       .setSubject(userId)
       .setIssuer(ISSUER)
@@ -46,10 +48,10 @@ export class SessionTokens {
         currentDate: new Date(nowSeconds * 1000),
         requiredClaims: ['sub', 'exp', 'iat'],
       });
-      const { sub, sv, at, iat, exp } = payload as Partial<SessionClaims>;
-      if (typeof sub !== 'string' || typeof sv !== 'number' || typeof at !== 'number' || typeof iat !== 'number' || typeof exp !== 'number') return null;
+      const { sub, sv, at, ro, iat, exp } = payload as Partial<SessionClaims>;
+      if (typeof sub !== 'string' || typeof sv !== 'number' || typeof at !== 'number' || typeof ro !== 'string' || typeof iat !== 'number' || typeof exp !== 'number') return null;
       if (nowSeconds >= at + ABSOLUTE_SECONDS) return null;
-      return { sub, sv, at, iat, exp };
+      return { sub, sv, at, ro, iat, exp };
     } catch (e) {
       if (e instanceof joseErrors.JOSEError || e instanceof TypeError) return null;
       return null;

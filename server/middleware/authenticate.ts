@@ -36,7 +36,7 @@ export function authenticate(deps: { db: Db; tokens: SessionTokens; clock: Clock
           .where(eq(users.id, claims.sub))
           .get()
       : undefined;
-    if (!claims || !row || !row.active || !row.organisationActive || row.sessionVersion !== claims.sv) {
+    if (!claims || !row || !row.active || !row.organisationActive || row.sessionVersion !== claims.sv || row.role !== claims.ro) {
       clearSessionCookie(res, deps.secureCookies);
       return next();
     }
@@ -50,7 +50,7 @@ export function authenticate(deps: { db: Db; tokens: SessionTokens; clock: Clock
     };
     req.ctx = { user, ability: defineAbilityFor(user) };
     if (now - claims.iat >= 60) {
-      setSessionCookie(res, await deps.tokens.issue(row.id, row.sessionVersion, claims.at, now), deps.secureCookies);
+      setSessionCookie(res, await deps.tokens.issue(row.id, row.sessionVersion, claims.at, now, row.role), deps.secureCookies);
     }
     next();
   };

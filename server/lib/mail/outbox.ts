@@ -28,6 +28,7 @@ export class OutboxDispatcher {
   private timer: NodeJS.Timeout | null = null;
   private running: Promise<number> | null = null;
   private again = false;
+  private stopped = false;
 
   constructor(
     private readonly db: Db,
@@ -44,13 +45,17 @@ export class OutboxDispatcher {
       this.again = true;
       return;
     }
-    this.running = this.flush().finally(() => {
-      this.running = null;
-      if (this.again) {
-        this.again = false;
-        this.kick();
-      }
-    });
+    if (this.stopped) return;
+    // A failed pass (e.g. the database closing) is retried by the next kick or tick, never unhandled.
+    this.running = this.sendDue()
+      .catch(() => 0)
+      .finally(() => {
+        this.running = null;
+        if (this.again) {
+          this.again = false;
+          this.kick();
+        }
+      });
   }
 
   start(intervalMs = 2000): void {
@@ -62,11 +67,21 @@ export class OutboxDispatcher {
   async stop(): Promise<void> {
     if (this.timer) clearInterval(this.timer);
     this.timer = null;
-    await this.running;
+    this.stopped = true;
+    this.again = false;
+    while (this.running) await this.running;
   }
 
-  /** Sends every due mail once; returns how many were sent. */
+  /**
+   * Sends every due mail once; returns how many were sent. Waits first for a send already under
+   * way (a kick after a commit), so the caller also sees the mail that send picked up.
+   */
   async flush(): Promise<number> {
+    while (this.running) await this.running;
+    return this.sendDue();
+  }
+
+  private async sendDue(): Promise<number> {
     let sent = 0;
     const now = this.clock.now().toISOString();
     const due = this.db

@@ -1,0 +1,55 @@
+import { Router } from 'express';
+import type { AppDeps } from '../../lib/deps';
+import { clearSessionCookie, setSessionCookie } from '../../lib/session';
+import { UnauthenticatedError } from '../../lib/errors';
+import { requireCtx } from '../../lib/context';
+import { requireUser } from '../../middleware/authenticate';
+import { parseBody } from '../../middleware/validate';
+import { clientAddress } from '../../middleware/rate-limit';
+import { passwordResetConfirmSchema, passwordResetRequestSchema, signInBodySchema } from '@shared/schemas/user';
+import { createAuthService, RESET_REQUESTED_MESSAGE, type AuthLimits } from './auth.service';
+
+/**
+ * /api/auth: sign-in, sign-out, me, password reset. HTTP only; the rules are in the service.
+ * The limiters are created here, per router (so per app): no state leaks between apps.
+ */
+export function authRouter(deps: AppDeps, options: { limits?: Partial<AuthLimits> } = {}): Router {
+  const service = createAuthService(deps, options.limits);
+  const r = Router();
+
+  r.post('/sign-in', async (req, res) => {
+    const body = parseBody(signInBodySchema, req.body);
+    const { token, me } = await service.signIn(body, clientAddress(req));
+    setSessionCookie(res, token, deps.secureCookies);
+    res.status(200).json(me);
+  });
+
+  r.post('/sign-out', (req, res) => {
+    if (req.ctx) service.signOut(req.ctx.user, clientAddress(req));
+    clearSessionCookie(res, deps.secureCookies);
+    res.status(204).end();
+  });
+
+  r.get('/me', requireUser, (req, res) => {
+    const ctx = requireCtx(req);
+    const me = service.me(ctx.user, ctx.ability);
+    if (!me) throw new UnauthenticatedError();
+    res.json(me);
+  });
+
+  r.post('/password-reset', (req, res) => {
+    const body = parseBody(passwordResetRequestSchema, req.body);
+    const { sendAfterCommit } = service.requestReset(body.email, clientAddress(req));
+    if (sendAfterCommit) deps.outbox.kick();
+    res.status(202).json({ message: RESET_REQUESTED_MESSAGE });
+  });
+
+  r.post('/password-reset/confirm', (req, res) => {
+    const body = parseBody(passwordResetConfirmSchema, req.body);
+    service.confirmReset(body, clientAddress(req));
+    clearSessionCookie(res, deps.secureCookies);
+    res.status(204).end();
+  });
+
+  return r;
+}
