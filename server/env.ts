@@ -21,6 +21,17 @@ export const envSchema = z.object({
   COOKIE_SECURE: bool.optional(),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(10),
   TRUST_PROXY: bool.default(false),
+  STORAGE_DRIVER: z.enum(['local', 's3']).default('local'),
+  S3_ENDPOINT: z.url().optional(),
+  S3_BUCKET: z.string().min(1).optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  UPLOAD_MAX_FILE_BYTES: z.coerce.number().int().min(1).default(15 * 1024 * 1024),
+  UPLOAD_MAX_FILES_PER_REQUEST: z.coerce.number().int().min(1).max(50).default(10),
+  UPLOAD_MAX_FILES_PER_CLAIM: z.coerce.number().int().min(1).default(40),
+  UPLOAD_MAX_BYTES_PER_CLAIM: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
+  UPLOAD_AGENCY_QUOTA_BYTES: z.coerce.number().int().min(1).default(10 * 1024 * 1024 * 1024),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -32,6 +43,9 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
   }
   const env = parsed.data;
+  if (env.STORAGE_DRIVER === 's3' && !env.S3_BUCKET) {
+    throw new Error('Invalid configuration:\n  S3_BUCKET: required when STORAGE_DRIVER=s3');
+  }
   if (env.NODE_ENV === 'production' && process.env.FIELDPROOF_STRICT_SECRETS === 'true') {
     if (env.SESSION_SECRET.includes('change-me') || env.PASSWORD_PEPPER.includes('change-me')) {
       throw new Error('Invalid configuration:\n  SESSION_SECRET / PASSWORD_PEPPER: set real secrets in strict mode');

@@ -7,6 +7,8 @@ import { staticClient, viteClient } from './client-serving';
 import { isEmpty, seedDemo, printDemoSignIns } from './db/seed/demo';
 import { systemClock } from './lib/clock';
 import type { Server } from 'node:http';
+import { storageFor } from './lib/storage/create-storage';
+import { describeSweep, sweepOrphans } from './modules/attachments/attachments.sweep';
 
 async function main() {
   let env: Env;
@@ -23,6 +25,10 @@ async function main() {
     console.log('Seeded the demo scenario.');
   }
 
+  // Files without rows and rows without files (a crash between a write and its commit).
+  const sweep = await sweepOrphans(db, storageFor(env), { graceMs: env.STORAGE_DRIVER === 's3' ? 15 * 60_000 : 0 });
+  console.log(describeSweep(sweep));
+
   let sink: MailSink | null = null;
   let smtpUrl = env.SMTP_URL;
   if (!smtpUrl) {
@@ -32,7 +38,7 @@ async function main() {
     console.log(`Local mail sink listening on ${smtpUrl} (see /dev/mailbox).`);
   }
 
-  const client = env.NODE_ENV === 'development' ? await viteClient() : staticClient();
+  const client = env.NODE_ENV === 'development' ? await viteClient() : env.NODE_ENV === 'test' ? [] : staticClient();
   const { app, deps } = createApp({ db, env, mailer: smtpMailer(smtpUrl, env.MAIL_FROM), clock: systemClock, sink, client });
   deps.outbox.start();
 

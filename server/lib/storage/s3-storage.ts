@@ -1,0 +1,120 @@
+import {
+  DeleteObjectCommand,
+  GetObjectCommand,
+  HeadObjectCommand,
+  ListObjectsV2Command,
+  PutObjectCommand,
+  S3Client,
+  type S3ClientConfig,
+} from '@aws-sdk/client-s3';
+import { Readable } from 'node:stream';
+import { assertKey, type ObjectInfo, type Storage } from './storage';
+
+export interface S3StorageOptions {
+  bucket: string;
+  endpoint?: string;
+  region: string;
+  accessKeyId?: string;
+  secretAccessKey?: string;
+  /** Path-style addressing (http://host/bucket/key), which most S3-compatible servers want. */
+  forcePathStyle?: boolean;
+}
+
+function isNotFound(e: unknown): boolean {
+  const err = e as { name?: string; $metadata?: { httpStatusCode?: number } };
+  return err?.name === 'NoSuchKey' || err?.name === 'NotFound' || err?.$metadata?.httpStatusCode === 404;
+}
+
+/**
+ * S3-compatible object storage through the AWS SDK v3, so several app servers share evidence.
+ * A PutObject is atomic on the server side (the object appears whole or not at all), so there
+ * are no temporary objects to clean.
+ */
+export class S3Storage implements Storage {
+  readonly driver = 's3' as const;
+  readonly client: S3Client;
+  readonly bucket: string;
+
+  constructor(opts: S3StorageOptions) {
+    const config: S3ClientConfig = {
+      region: opts.region,
+      endpoint: opts.endpoint,
+      forcePathStyle: opts.forcePathStyle ?? Boolean(opts.endpoint),
+      // Only send checksums where the API requires them: some S3-compatible servers do not
+      // understand the newer default checksum headers.
+      requestChecksumCalculation: 'WHEN_REQUIRED',
+      responseChecksumValidation: 'WHEN_REQUIRED',
+    };
+    if (opts.accessKeyId && opts.secretAccessKey) {
+      config.credentials = { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey };
+    }
+    this.client = new S3Client(config);
+    this.bucket = opts.bucket;
+  }
+
+  async put(key: string, data: Buffer, contentType: string): Promise<void> {
+    assertKey(key);
+    await this.client.send(
+      new PutObjectCommand({ Bucket: this.bucket, Key: key, Body: data, ContentType: contentType, ContentLength: data.length }),
+    );
+  }
+
+  async read(key: string): Promise<Buffer | null> {
+    const o = await this.open(key);
+    if (!o) return null;
+    const chunks: Buffer[] = [];
+    for await (const c of o.stream) chunks.push(Buffer.isBuffer(c) ? c : Buffer.from(c as Uint8Array));
+    return Buffer.concat(chunks);
+  }
+
+  async open(key: string) {
+    assertKey(key);
+    try {
+      const out = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
+      const body = out.Body;
+      if (!body) return null;
+      const stream = body instanceof Readable ? body : Readable.fromWeb(body as never);
+      return { stream, size: Number(out.ContentLength ?? 0) };
+    } catch (e) {
+      if (isNotFound(e)) return null;
+      throw e;
+    }
+  }
+
+  async stat(key: string): Promise<ObjectInfo | null> {
+    assertKey(key);
+    try {
+      const out = await this.client.send(new HeadObjectCommand({ Bucket: this.bucket, Key: key }));
+      return { key, size: Number(out.ContentLength ?? 0), modifiedAt: out.LastModified ?? new Date(0) };
+    } catch (e) {
+      if (isNotFound(e)) return null;
+      throw e;
+    }
+  }
+
+  async delete(key: string): Promise<void> {
+    assertKey(key);
+    try {
+      await this.client.send(new DeleteObjectCommand({ Bucket: this.bucket, Key: key }));
+    } catch (e) {
+      if (!isNotFound(e)) throw e;
+    }
+  }
+
+  async *list(prefix = ''): AsyncIterable<ObjectInfo> {
+    let token: string | undefined;
+    do {
+      const out = await this.client.send(
+        new ListObjectsV2Command({ Bucket: this.bucket, Prefix: prefix || undefined, ContinuationToken: token }),
+      );
+      for (const o of out.Contents ?? []) {
+        if (o.Key) yield { key: o.Key, size: Number(o.Size ?? 0), modifiedAt: o.LastModified ?? new Date(0) };
+      }
+      token = out.IsTruncated ? out.NextContinuationToken : undefined;
+    } while (token);
+  }
+
+  async cleanTemp(): Promise<string[]> {
+    return [];
+  }
+}
