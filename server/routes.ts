@@ -6,6 +6,9 @@ import { unitsRouter } from './modules/units/units.router';
 import { catalogRouter } from './modules/catalog/catalog.router';
 import { homeRouter } from './modules/home/home.router';
 import { devRouter } from './modules/dev/dev.router';
+import { agencyRouter, postalCodesRouter } from './modules/agency/agency.router';
+import { invitationsRouter } from './modules/invitations/invitations.router';
+import { adminRouter } from './modules/admin/admin.router';
 
 /**
  * Every API module is mounted here, in one list, so the authorization-matrix test can
@@ -17,6 +20,10 @@ export function mountApi(api: Router, deps: AppDeps): void {
   api.use('/units', unitsRouter(deps));
   api.use('/catalog', catalogRouter(deps));
   api.use('/home', homeRouter(deps));
+  api.use('/agency', agencyRouter(deps));
+  api.use('/postal-codes', postalCodesRouter());
+  api.use('/invitations', invitationsRouter(deps));
+  api.use('/admin', adminRouter(deps));
   const dev = devRouter(deps);
   if (dev) api.use('/dev', dev);
 }

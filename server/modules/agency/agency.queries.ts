@@ -1,5 +1,4 @@
 import { and, asc, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
-import { alias } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { certifications, organisations, productFamilies, users } from '../../db/schema/index';
 import { abilityToSql } from '../../lib/casl-to-sql';
@@ -163,7 +162,6 @@ export function getCertificationItem(db: Db, id: string, today: string): Certifi
  * file. For the home page's notices and the users page's warnings. Soonest first.
  */
 export function expiringCertifications(db: Db, organisationId: string, today: string, days = CERTIFICATION_WARNING_DAYS): CertificationItem[] {
-  const later = alias(certifications, 'later');
   return db
     .select(certificationSelect)
     .from(certifications)
@@ -176,7 +174,7 @@ export function expiringCertifications(db: Db, organisationId: string, today: st
         lte(certifications.validFrom, today),
         gte(certifications.validTo, today),
         lte(certifications.validTo, addDays(today, days)),
-        sql`not exists (select 1 from ${later} where ${later.userId} = ${certifications.userId} and ${later.familyId} = ${certifications.familyId} and ${later.validTo} > ${certifications.validTo})`,
+        sql`not exists (select 1 from certifications as later where later.user_id = ${certifications.userId} and later.family_id = ${certifications.familyId} and later.valid_to > ${certifications.validTo})`,
       ),
     )
     .orderBy(asc(certifications.validTo), asc(users.name))
