@@ -31,7 +31,7 @@ export type Subject =
   | 'ContractTerms'
   | 'Mailbox';
 
-export type AppAbility = MongoAbility<[Action, Subject | Record<string, unknown>]>;
+export type AppAbility = MongoAbility<[Action, Subject | object]>;
 export type AppRule = RawRuleOf<AppAbility>;
 
 export interface SessionUser {
