@@ -4,6 +4,16 @@ import { defineConfig, devices } from '@playwright/test';
 const PORT = Number(process.env.E2E_PORT ?? 3210);
 const baseURL = `http://localhost:${PORT}`;
 const onCi = !!process.env.CI;
+const credentialChanges = /password-reset\.spec\.ts$/;
+
+/** Debian's chromium (no browser download is possible here), headless, quiet. */
+const chromium = {
+  ...devices['Desktop Chrome'],
+  launchOptions: {
+    executablePath: '/usr/bin/chromium',
+    args: ['--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--no-sandbox'],
+  },
+};
 
 export default defineConfig({
   testDir: 'tests/e2e',
@@ -26,16 +36,10 @@ export default defineConfig({
     navigationTimeout: 15_000,
   },
   projects: [
-    {
-      name: 'chromium',
-      use: {
-        ...devices['Desktop Chrome'],
-        launchOptions: {
-          executablePath: '/usr/bin/chromium',
-          args: ['--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--no-sandbox'],
-        },
-      },
-    },
+    // Journeys that leave the demo data as they found it.
+    { name: 'chromium', testIgnore: credentialChanges, use: chromium },
+    // Journeys that change a demo account's password run last, so the others sign in as seeded.
+    { name: 'chromium-credentials', testMatch: credentialChanges, dependencies: ['chromium'], use: chromium },
   ],
   webServer: {
     // The built app (NODE_ENV=production, static client) on a fresh database in a temp folder.

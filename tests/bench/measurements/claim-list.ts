@@ -1,0 +1,82 @@
+import type { Measurement } from '../lib/measurement';
+import { BENCH_PASSWORD } from '../lib/dataset';
+import { startServer, type RunningServer } from '../lib/servers';
+import { load, warmUp, type LoadResult } from '../lib/load';
+
+const GOAL_RATIO = 0.5;
+const STATE = 'paid';
+
+async function signInCookie(app: RunningServer, email: string): Promise<string> {
+  const res = await fetch(`${app.url}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: app.url },
+    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
+  });
+  if (res.status !== 200) throw new Error(`bench sign-in as ${email} answered ${res.status}: ${await res.text()}`);
+  const cookie = res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .find((c) => c.startsWith('fp_session='));
+  if (!cookie) throw new Error('bench sign-in set no session cookie');
+  return cookie;
+}
+
+async function getJson(url: string, headers: Record<string, string> = {}): Promise<{ items: { id: string }[]; total: number }> {
+  const res = await fetch(url, { headers });
+  if (res.status !== 200) throw new Error(`GET ${url} answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
+  return (await res.json()) as { items: { id: string }[]; total: number };
+}
+
+function fmt(r: LoadResult): string {
+  return `${r.requestsPerSecond.toFixed(0)} req/s, p50 ${r.p50Ms} ms, p99 ${r.p99Ms} ms (${r.requests} requests, ${r.errors} errors, ${r.non2xx} non-2xx)`;
+}
+
+/**
+ * The claim list page (50 rows, state filter, agency scope) through the real app signed in as
+ * an agency admin, beside the bare baseline running the same statement, at the same concurrency.
+ */
+export const claimList: Measurement = {
+  name: `claim list page (50 rows, state=${STATE}, agency scope)`,
+  async run(ctx) {
+    const data = ctx.dataset();
+    const env = { DATABASE_PATH: data.databasePath, STORAGE_DIR: `${data.dir}/files`, SEED_DEMO: 'false', BCRYPT_COST: '4', COOKIE_SECURE: 'false', PASSWORD_PEPPER: data.pepper };
+    const app = await startServer('app', 'app-server.ts', env);
+    const baseline = await startServer('baseline', 'baseline-server.ts', env);
+    try {
+      const cookie = await signInCookie(app, data.measuredAdminEmail);
+      const appUrl = `${app.url}/api/claims?state=${STATE}&limit=50`;
+      const baseUrl = `${baseline.url}/claims?agency=${encodeURIComponent(data.measuredAgencyId)}&state=${STATE}`;
+      const appHeaders = { cookie };
+
+      // Both must answer the same page before their speed means anything.
+      const [a, b] = await Promise.all([getJson(appUrl, appHeaders), getJson(baseUrl)]);
+      if (a.items.length !== 50 || a.total !== b.total || a.items.map((i) => i.id).join() !== b.items.map((i) => i.id).join()) {
+        throw new Error(`the app and the baseline disagree: app ${a.items.length} rows of ${a.total}, baseline ${b.items.length} rows of ${b.total}`);
+      }
+      console.log(`  same page from both: 50 rows of ${a.total} ${STATE} claims of one agency`);
+
+      await warmUp(baseUrl);
+      await warmUp(appUrl, appHeaders);
+      const opts = { connections: ctx.connections, durationSeconds: ctx.durationSeconds };
+      const base = await load(baseUrl, opts);
+      console.log(`  baseline: ${fmt(base)}`);
+      const real = await load(appUrl, { ...opts, headers: appHeaders });
+      console.log(`  app:      ${fmt(real)}`);
+      if (real.non2xx > 0 || real.errors > 0 || base.non2xx > 0 || base.errors > 0) {
+        throw new Error('some requests failed during the measurement; the figures are not comparable');
+      }
+      const ratio = real.requestsPerSecond / base.requestsPerSecond;
+      return [
+        { label: 'baseline throughput', value: `${base.requestsPerSecond.toFixed(0)} req/s` },
+        { label: 'baseline p99', value: `${base.p99Ms} ms` },
+        { label: 'app throughput', value: `${real.requestsPerSecond.toFixed(0)} req/s` },
+        { label: 'app p99', value: `${real.p99Ms} ms` },
+        { label: 'throughput ratio app/baseline', value: ratio.toFixed(2), goal: `>= ${GOAL_RATIO}`, met: ratio >= GOAL_RATIO },
+        { label: 'p99 ratio app/baseline', value: (real.p99Ms / Math.max(base.p99Ms, 1)).toFixed(2) },
+      ];
+    } finally {
+      await app.stop();
+      await baseline.stop();
+    }
+  },
+};
