@@ -1,11 +1,11 @@
 import type { ReactNode } from 'react';
-import { QueryClientProvider, useQuery, type QueryClient } from '@tanstack/react-query';
+import { QueryClientProvider, type QueryClient } from '@tanstack/react-query';
 import { SessionAbilityProvider } from '@/lib/ability';
-import { authQueries } from '@/features/auth/api/get-me';
+import { useSession } from '@/features/auth/api/get-me';
 
 function SessionAbility({ children }: { children: ReactNode }) {
-  const me = useQuery(authQueries.me());
-  return <SessionAbilityProvider rules={me.data?.rules}>{children}</SessionAbilityProvider>;
+  const session = useSession();
+  return <SessionAbilityProvider rules={session?.rules}>{children}</SessionAbilityProvider>;
 }
 
 /** The query cache and the signed-in user's CASL ability, around the whole app. */

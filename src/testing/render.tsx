@@ -1,11 +1,16 @@
 import type { ReactNode } from 'react';
-import { render } from '@testing-library/react';
+import { vi } from 'vitest';
+import { configure, render } from '@testing-library/react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { createMemoryRouter, RouterProvider, type RouteObject } from 'react-router';
 import type { MeResponse } from '@shared/schemas/user';
 import { defineAbilityFor, type Role } from '@shared/permissions/ability';
 import { SessionAbilityProvider } from '@/lib/ability';
 import { queryDefaults } from '@/lib/query-client';
+
+// jsdom on a busy machine is slow: give async queries room before they fail.
+configure({ asyncUtilTimeout: 5000 });
+vi.setConfig({ testTimeout: 20_000 });
 
 export function testQueryClient(): QueryClient {
   return new QueryClient({

@@ -3,7 +3,7 @@ import type { QueryClient } from '@tanstack/react-query';
 import { AppShell } from '@/components/layouts/app-shell';
 import { FullPageSpinner } from '@/components/ui/spinner';
 import { paths, signInPath } from '@/config/paths';
-import { authQueries, useMe } from '@/features/auth/api/get-me';
+import { authQueries, useSession } from '@/features/auth/api/get-me';
 import { useSignOut } from '@/features/auth/api/sign-out';
 
 /** Every signed-in screen sits under this route: no session, no screen. */
@@ -19,18 +19,18 @@ export const appLayoutLoader =
   };
 
 export function AppLayoutRoute() {
-  const me = useMe();
+  const me = useSession();
   const location = useLocation();
   const navigate = useNavigate();
   const signOut = useSignOut({ onSettled: () => navigate(paths.signIn, { replace: true }) });
 
-  if (me.data === null && !signOut.isPending) {
+  if (!me) {
+    if (signOut.isPending) return <FullPageSpinner label="Signing out…" />;
     // The session ended while the page was open (idle limit, signed out elsewhere).
     return <Navigate to={signInPath(location.pathname + location.search)} replace />;
   }
-  if (!me.data) return <FullPageSpinner />;
   return (
-    <AppShell user={me.data.user} organisation={me.data.organisation} onSignOut={() => signOut.mutate()} signingOut={signOut.isPending}>
+    <AppShell user={me.user} organisation={me.organisation} onSignOut={() => signOut.mutate()} signingOut={signOut.isPending}>
       <Outlet />
     </AppShell>
   );

@@ -11,7 +11,7 @@ import { paths } from '@/config/paths';
 import { useAppAbility } from '@/lib/ability';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { plural } from '@/lib/format';
-import { useMe } from '@/features/auth/api/get-me';
+import { useSession } from '@/features/auth/api/get-me';
 import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaims } from '@/features/claims/api/get-claims';
 import { useAgencies, type AgencyOption } from '@/features/claims/api/get-agencies';
@@ -54,7 +54,7 @@ export function ClaimsRoute() {
   const location = useLocation();
   const navigate = useNavigate();
   const filters = useMemo(() => parseClaimFilters(params), [params]);
-  const { data: me } = useMe();
+  const me = useSession();
   const ability = useAppAbility();
   const claims = useClaims(filters);
   const isManufacturer = me?.organisation.kind === 'manufacturer';

@@ -5,7 +5,7 @@ import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { Skeleton } from '@/components/ui/skeleton';
 import { errorMessage, isApiError } from '@/lib/api-client';
-import { useMe } from '@/features/auth/api/get-me';
+import { useSession } from '@/features/auth/api/get-me';
 import { homeQueries, useHome } from '@/features/home/api/get-home';
 import { HomeCard } from '@/features/home/components/home-card';
 import { HomeNotices } from '@/features/home/components/home-notices';
@@ -25,7 +25,7 @@ function greeting(now: Date): string {
 }
 
 export function HomeRoute() {
-  const { data: me } = useMe();
+  const me = useSession();
   const home = useHome();
   const firstName = me?.user.name.split(' ')[0];
   return (

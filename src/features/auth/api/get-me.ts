@@ -1,4 +1,5 @@
-import { queryOptions, useQuery } from '@tanstack/react-query';
+import { useCallback, useSyncExternalStore } from 'react';
+import { queryOptions, useQueryClient } from '@tanstack/react-query';
 import type { MeResponse } from '@shared/schemas/user';
 import { api, isApiError } from '@/lib/api-client';
 
@@ -22,6 +23,14 @@ export const authQueries = {
     }),
 };
 
-export function useMe() {
-  return useQuery(authQueries.me());
+/**
+ * The session as the cache holds it (loaders fetch it): a session, null when signed out,
+ * undefined when not known yet. Read straight from the cache, so it stays right across
+ * queryClient.clear() at sign-in, sign-out and session expiry, when query observers would
+ * still point at the removed query.
+ */
+export function useSession(): MeResponse | null | undefined {
+  const queryClient = useQueryClient();
+  const subscribe = useCallback((onChange: () => void) => queryClient.getQueryCache().subscribe(onChange), [queryClient]);
+  return useSyncExternalStore(subscribe, () => queryClient.getQueryData(authQueries.me().queryKey));
 }

@@ -17,7 +17,7 @@ export interface ClaimFilterBarProps {
 
 function valueOf(form: HTMLFormElement, name: string): string | undefined {
   const el = form.elements.namedItem(name);
-  const v = el && 'value' in el ? String((el as HTMLInputElement).value).trim() : '';
+  const v = el instanceof HTMLInputElement || el instanceof HTMLSelectElement ? el.value.trim() : '';
   return v || undefined;
 }
 
