@@ -17,7 +17,8 @@ export interface RunningServer {
  */
 export function startServer(name: string, file: string, env: Record<string, string>): Promise<RunningServer> {
   const child: ChildProcess = fork(join(here, '../servers', file), [], {
-    execArgv: ['--import', 'tsx'],
+    // BENCH_PROFILE=<dir> writes a V8 CPU profile of each server to that folder on exit.
+    execArgv: ['--import', 'tsx', ...(process.env.BENCH_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_PROFILE}/${name}`] : [])],
     env: { ...process.env, NODE_ENV: 'production', ...env },
     stdio: ['ignore', 'inherit', 'inherit', 'ipc'],
   });
