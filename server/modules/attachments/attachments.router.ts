@@ -25,13 +25,20 @@ export function setDownloadHeaders(res: Response, contentType: string, dispositi
   res.setHeader('Content-Type', contentType);
   res.setHeader('Content-Disposition', disposition);
   res.setHeader('X-Content-Type-Options', 'nosniff');
-  res.setHeader('Content-Security-Policy', "sandbox; default-src 'none'");
+  res.setHeader('Content-Security-Policy', "sandbox; default-src 'none'; frame-ancestors 'none'");
   res.setHeader('Cross-Origin-Resource-Policy', 'same-origin');
   res.setHeader('Cache-Control', 'private, no-store');
   if (size !== undefined) res.setHeader('Content-Length', String(size));
 }
 
+export function isMalformedMultipart(e: unknown): boolean {
+  return e instanceof Error && /Malformed part header|Unexpected end of form|Malformed urlencoded|boundary/i.test(e.message);
+}
+
 function multerError(e: unknown, limits: UploadLimits): unknown {
+  if (isMalformedMultipart(e)) {
+    return new ValidationError('The upload is malformed: a part header could not be read. File names with control characters (NUL, CR or LF) are refused.');
+  }
   if (!(e instanceof MulterError)) return e;
   switch (e.code) {
     case 'LIMIT_FILE_SIZE':

@@ -10,6 +10,7 @@ import type { Storage } from '../../lib/storage/storage';
 import { checkOriginalName, extensionOf } from '../../lib/photo/file-name';
 import { findReadableClaim } from '../claims/claims.queries';
 import { createAttachmentsService, type UploadLimits } from '../attachments/attachments.service';
+import { isMalformedMultipart } from '../attachments/attachments.router';
 import { claimReadingsReport, createReadingsService, CsvImportRefused } from './readings.service';
 
 /** A readings sheet is small: 1 MB is thousands of rows more than a sheet has. */
@@ -61,6 +62,7 @@ export function readingsRouter(deps: AppDeps, opts: { storage?: Storage; limits?
       const files = await new Promise<Express.Multer.File[]>((resolve, reject) =>
         parser(req, res, (err?: unknown) => {
           if (!err) return resolve((req.files as Express.Multer.File[] | undefined) ?? []);
+          if (isMalformedMultipart(err)) return reject(new ValidationError('The upload is malformed: a part header could not be read.'));
           if (err instanceof MulterError) {
             if (err.code === 'LIMIT_FILE_SIZE') return reject(new PayloadTooLargeError('A readings sheet may be at most 1 MB.'));
             if (err.code === 'LIMIT_FILE_COUNT') return reject(new PayloadTooLargeError('Import one readings sheet at a time.'));
