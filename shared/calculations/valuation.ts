@@ -85,6 +85,8 @@ export interface ValuationInput {
   unit: {
     serial: string;
     familyId: string;
+    /** Shown in explanations; the id is used when absent. */
+    familyName?: string;
     shipDate: string;
     installDate: string | null;
   };
@@ -468,7 +470,7 @@ export function valueClaim(input: ValuationInput): Valuation {
   if (uncoveredParts.length > 0) {
     addFlag(
       'out_of_coverage',
-      uncoveredParts.map((p) => `${p.line.id}: ${p.line.coverageReason}`).join(' '),
+      uncoveredParts.map((p) => `${p.line.description}: ${p.line.coverageReason}`).join(' '),
       uncoveredParts.map((p) => p.line.id),
       'parts',
     );
@@ -500,6 +502,7 @@ export function valueClaim(input: ValuationInput): Valuation {
   if (input.technician) {
     const certs = input.technician.certifications ?? [];
     const family = input.unit.familyId;
+    const familyName = input.unit.familyName ?? family;
     const valid = certs.find((c, i) => {
       parseIsoDate(c.validFrom, `technician.certifications.${i}.validFrom`);
       if (c.validTo) parseIsoDate(c.validTo, `technician.certifications.${i}.validTo`);
@@ -511,13 +514,13 @@ export function valueClaim(input: ValuationInput): Valuation {
       addFlag(
         'technician_not_certified',
         forFamily.length === 0
-          ? `${who} holds no certification for product family ${family}.`
-          : `${who}'s certification for product family ${family} (${forFamily
+          ? `${who} holds no certification for product family ${familyName}.`
+          : `${who}'s certification for product family ${familyName} (${forFamily
               .map((c) => `${c.validFrom} to ${c.validTo ?? 'open'}`)
               .join(', ')}) does not include the repair date ${input.repairDate}.`,
       );
     } else {
-      explanation.push(`${who} is certified for product family ${family} from ${valid.validFrom} to ${valid.validTo ?? 'open'}, which includes the repair date.`);
+      explanation.push(`${who} is certified for product family ${familyName} from ${valid.validFrom} to ${valid.validTo ?? 'open'}, which includes the repair date.`);
     }
   }
 
@@ -525,14 +528,14 @@ export function valueClaim(input: ValuationInput): Valuation {
     const hit = lines.filter((l) => l.flags.includes(code));
     if (hit.length > 0) addFlag(code, hit.map(describe).join(' '), hit.map((l) => l.id));
   };
-  gather('labor_over_allowance', (l) => `${l.id}: ${num(l.inputs.hoursWorked as number)} h worked against ${num(l.inputs.allowedHours as number)} h allowed for ${String(l.inputs.repairCode)}.`);
-  gather('overtime_without_authorization', (l) => `${l.id}: overtime claimed with no pre-authorisation number; paid at the normal rate.`);
+  gather('labor_over_allowance', (l) => `${l.description}: ${num(l.inputs.hoursWorked as number)} h worked against ${num(l.inputs.allowedHours as number)} h allowed for ${String(l.inputs.repairCode)}.`);
+  gather('overtime_without_authorization', (l) => `${l.description}: overtime claimed with no pre-authorisation number; paid at the normal rate.`);
   gather('travel_over_cap', (l) =>
     l.kind === 'travel_distance'
-      ? `${l.id}: ${num(l.inputs.enteredRoundTripMiles as number, 1)} mi entered, cap ${num(l.inputs.maxRoundTripMiles as number)} mi.`
-      : `${l.id}: ${num(l.inputs.travelHours as number)} h entered, cap ${num(l.inputs.maxTravelHours as number)} h.`,
+      ? `${l.description}: ${num(l.inputs.enteredRoundTripMiles as number, 1)} mi entered, cap ${num(l.inputs.maxRoundTripMiles as number)} mi.`
+      : `${l.description}: ${num(l.inputs.travelHours as number)} h entered, cap ${num(l.inputs.maxTravelHours as number)} h.`,
   );
-  gather('travel_distance_implausible', (l) => `${l.id}: ${l.explanation.find((e) => e.startsWith('Below') || e.startsWith('Far above')) ?? ''}`);
+  gather('travel_distance_implausible', (l) => `${l.description}: ${l.explanation.find((e) => e.startsWith('Below') || e.startsWith('Far above')) ?? ''}`);
 
   const readings: ReadingJudgement[] = (input.readings ?? []).map((r, i) => {
     if (!r || typeof r !== 'object') throw new CalculationInputError(`readings.${i}`, 'reading must be an object');

@@ -17,6 +17,7 @@ import {
   models,
   organisations,
   parts,
+  productFamilies,
   readingSpecs,
   repairCodes,
   sites,
@@ -38,7 +39,7 @@ export interface BuildProblem {
 
 export interface ClaimInputs {
   claim: Claim;
-  unit: { id: string; serial: string; shipDate: string; installDate: string | null; modelId: string; familyId: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number } | null;
+  unit: { id: string; serial: string; shipDate: string; installDate: string | null; modelId: string; familyId: string; familyName: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number } | null;
   site: { latitude: number; longitude: number } | null;
   base: { latitude: number; longitude: number } | null;
   terms: typeof agencyTerms.$inferSelect | null;
@@ -64,6 +65,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
           installDate: units.installDate,
           modelId: models.id,
           familyId: models.familyId,
+          familyName: productFamilies.name,
           partsMonths: models.partsMonths,
           laborMonths: models.laborMonths,
           capMonthsFromShip: models.capMonthsFromShip,
@@ -71,6 +73,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
         })
         .from(units)
         .innerJoin(models, eq(models.id, units.modelId))
+        .innerJoin(productFamilies, eq(productFamilies.id, models.familyId))
         .where(eq(units.id, claim.unitId))
         .get() ?? null)
     : null;
@@ -240,7 +243,7 @@ export function valuationInputOf(inputs: ClaimInputs, today: string): { input: V
     repairDate: claim.repairDate,
     filedDate: claim.firstSubmittedAt ? claim.firstSubmittedAt.slice(0, 10) : null,
     asOfDate: claim.firstSubmittedAt ? null : today,
-    unit: { serial: unit.serial, familyId: unit.familyId, shipDate: unit.shipDate, installDate: unit.installDate },
+    unit: { serial: unit.serial, familyId: unit.familyId, familyName: unit.familyName, shipDate: unit.shipDate, installDate: unit.installDate },
     warrantyTerms: { partsMonths: unit.partsMonths, laborMonths: unit.laborMonths, capMonthsFromShip: unit.capMonthsFromShip, installGraceDays: unit.installGraceDays },
     componentTerms: inputs.components,
     contract: {
