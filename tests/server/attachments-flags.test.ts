@@ -87,6 +87,9 @@ describe('evidence flags', () => {
     expect(again.body.flags[0].message).toContain('identical SHA-256');
     const row = t.db.$client.prepare('select flags from claims where id = ?').get(claimY.id) as { flags: string };
     expect(JSON.parse(row.flags)).toContain('photo_reused');
+    // The claim the photo came from now carries the flag as well.
+    const rowX = t.db.$client.prepare('select flags from claims where id = ?').get(claimX.id) as { flags: string };
+    expect(JSON.parse(rowX.flags)).toContain('photo_reused');
   });
 
   it('a re-encoded and resized copy on another agency\'s claim: photo_reused by perceptual hash; the other agency is not named to the agency', async () => {

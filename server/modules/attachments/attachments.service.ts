@@ -88,14 +88,19 @@ export function toView(a: Attachment & { uploadedByName?: string | null }): Atta
   };
 }
 
-/** Rewrites the photo flags held on the claim row (the others belong to the valuation). */
-export function refreshPhotoFlags(t: Db, claimId: string): void {
+/**
+ * Rewrites the photo flags held on the claim row (the others belong to the valuation), and
+ * returns the other claims a reused photo was found on (their flags change too).
+ */
+export function refreshPhotoFlags(t: Db, claimId: string): string[] {
   const row = t.select({ flags: claims.flags }).from(claims).where(eq(claims.id, claimId)).get();
-  if (!row) return;
+  if (!row) return [];
+  const found = evidenceFlags(t, claimId, { revealOtherAgencies: true });
   const kept = row.flags.filter((f) => !(isFlagCode(f) && FLAG_INFO[f].raisedBy === 'attachments') && !f.startsWith('photo_'));
-  const photo = [...new Set(evidenceFlags(t, claimId).filter((f) => f.code.startsWith('photo_')).map((f) => f.code))];
+  const photo = [...new Set(found.filter((f) => f.code.startsWith('photo_')).map((f) => f.code))];
   const next = [...kept, ...photo];
   if (JSON.stringify(next) !== JSON.stringify(row.flags)) t.update(claims).set({ flags: next }).where(eq(claims.id, claimId)).run();
+  return [...new Set(found.map((f) => f.otherClaimId).filter((id): id is string => !!id && id !== claimId))];
 }
 
 export interface UploadOptions {
@@ -220,7 +225,7 @@ export function createAttachmentsService(deps: AppDeps, storage: Storage, limits
           });
         }
         opts.inTransaction?.(t, rows);
-        refreshPhotoFlags(t, claim.id);
+        for (const other of refreshPhotoFlags(t, claim.id)) refreshPhotoFlags(t, other);
       });
     } catch (e) {
       await Promise.all(written.map((k) => storage.delete(k).catch(() => undefined)));
