@@ -1,4 +1,6 @@
 import { Router } from 'express';
+import { asc, eq } from 'drizzle-orm';
+import { productFamilies } from '../../db/schema/index';
 import type { AppDeps } from '../../lib/deps';
 import { requireCtx, type RequestContext } from '../../lib/context';
 import { ForbiddenError, NotFoundError } from '../../lib/errors';
@@ -70,6 +72,19 @@ export function agencyRouter(deps: AppDeps): Router {
     mayWrite(requireCtx(req), 'update');
     const body = parseBody(updateCertificationSchema, req.body);
     res.json(agency.updateCertification(requireCtx(req), req.params.id, body, clientAddress(req)));
+  });
+
+  /** Product families to certify technicians for (the catalogue's active ones). */
+  r.get('/families', (req, res) => {
+    const ctx = requireCtx(req);
+    if (ctx.user.organisationKind !== 'agency' || !ctx.ability.can('read', 'Catalog')) throw new ForbiddenError();
+    const items = deps.db
+      .select({ id: productFamilies.id, code: productFamilies.code, name: productFamilies.name })
+      .from(productFamilies)
+      .where(eq(productFamilies.active, true))
+      .orderBy(asc(productFamilies.code))
+      .all();
+    res.json({ items });
   });
 
   r.get('/profile', (req, res) => {
