@@ -10,6 +10,8 @@ import { verifyPassword } from '../../lib/passwords';
 import { claimStates, attachmentRoles } from '../schema/index';
 import { DEMO_PASSWORD, demoSignIns, isEmpty, printDemoSignIns, seedDemo } from './demo';
 import { removeDatabaseFiles } from './reset';
+import { loadClaimInputs, valueFromInputs } from '../../modules/claims/valuation.builder';
+import { claims as claimsTable } from '../schema/index';
 
 const PEPPER = 'test-pepper-0123456789abcdef';
 const TODAY = '2026-06-15';
@@ -385,5 +387,35 @@ describe('demo seed: runs', () => {
   it('refuses to empty a storage folder that is the filesystem root or the working directory', () => {
     expect(() => removeDatabaseFiles(':memory:', '/')).toThrow(/Refusing/);
     expect(() => removeDatabaseFiles(':memory:', process.cwd())).toThrow(/Refusing/);
+  });
+});
+
+describe('seeded amounts agree with the computation', () => {
+  it('stores the claimed total the valuation gives, and freezes its approved totals on approved and paid claims', () => {
+    const rows = db.select().from(claimsTable).all();
+    let checked = 0;
+    for (const row of rows) {
+      const v = valueFromInputs(loadClaimInputs(db, row), TODAY).valuation;
+      if (!v) continue;
+      expect(row.claimedTotalCents, row.number).toBe(v.totals.claimed.totalCents);
+      if (row.state === 'approved' || row.state === 'paid') {
+        expect(row.approvedTotalCents, row.number).toBe(v.totals.approved.totalCents);
+        expect((row.approvedLaborCents ?? 0) + (row.approvedTravelCents ?? 0) + (row.approvedPartsCents ?? 0)).toBe(row.approvedTotalCents);
+      }
+      checked++;
+    }
+    expect(checked).toBeGreaterThanOrEqual(40);
+  });
+
+  it('gives every payment run the sum of its items, and every item its claim\'s approved total', () => {
+    const bad = db.$client
+      .prepare(
+        `SELECT r.number FROM payment_runs r WHERE r.total_cents != (SELECT COALESCE(SUM(i.amount_cents),0) FROM payment_run_items i WHERE i.run_id = r.id)
+         UNION ALL SELECT c.number FROM payment_run_items i JOIN claims c ON c.id = i.claim_id WHERE i.amount_cents != c.approved_total_cents`,
+      )
+      .all();
+    expect(bad).toEqual([]);
+    const runs = db.$client.prepare('SELECT COUNT(*) AS n FROM payment_runs').get() as { n: number };
+    expect(runs.n).toBeGreaterThan(0);
   });
 });

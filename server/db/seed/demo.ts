@@ -62,6 +62,7 @@ import {
   type RepairCodeSeed,
   type TermsSeed,
 } from './demo-data';
+import { settleSeededAmounts } from './settle';
 
 /**
  * Every demo account signs in with this password. It is shorter than the 15-character
@@ -1139,6 +1140,7 @@ export function seedDemo(db: Db, opts: SeedOptions): SeedSummary {
     t.insert(claimCounters).values(counterRows).run();
     t.insert(paymentRuns).values(runRows).run();
     put(runItemRows, (c) => t.insert(paymentRunItems).values(c).run());
+    settleSeededAmounts(t, today);
   });
 
   const claimsByState = Object.fromEntries(
