@@ -91,7 +91,7 @@ describe('claim workflow: every state x move x role', () => {
     const claim = { id: 'c1', agencyId: agencyA, technicianId: 'tech-a1', state };
     const ability = defineAbilityFor(principals[who]);
     const machineSays = nextState(state, fullEvent(action), ok);
-    const roleSays = ability.can(action, subject('Claim', { ...claim }) as unknown as Record<string, unknown>);
+    const roleSays = ability.can(action, subject('Claim', { ...claim }));
     const key = `${state}:${action}:${who}`;
     expect(machineSays !== null && roleSays).toBe(allowed.has(key));
     expect(machineSays).toBe(expectedNext[`${state}:${action}`] ?? null);

@@ -8,7 +8,7 @@
  *   in review --deny--> denied
  */
 import { setup, transition, getNextTransitions, type SnapshotFrom } from 'xstate';
-import type { ClaimState } from '../schemas/claim';
+import { claimStates, type ClaimState } from '../schemas/claim';
 import type { ClaimAction } from '../permissions/ability';
 import { isReasonFor } from './reason-codes';
 import type { SubmitValidation } from './submit-validation';
@@ -135,6 +135,11 @@ export function eventsFromState(state: ClaimState): ClaimEventType[] {
   const snap = resolveClaim(state);
   const types = new Set(getNextTransitions(snap).map((t) => t.eventType as ClaimEventType));
   return claimEventTypes.filter((e) => types.has(e));
+}
+
+/** The states from which the event has a transition (whatever its guards say). */
+export function statesAllowing(type: ClaimEventType): ClaimState[] {
+  return claimStates.filter((s) => eventsFromState(s).includes(type));
 }
 
 /**

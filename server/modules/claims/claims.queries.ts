@@ -34,12 +34,9 @@ export function claimScope(ability: AppAbility, action: Action = 'read'): SQL {
   return abilityToSql(ability, action, 'Claim', claimScopeColumns);
 }
 
-/**
- * A plain claim row (or its scope fields) tagged for CASL checks. AppAbility types plain
- * subjects as Record<string, unknown>, which a tagged row type does not satisfy, hence the cast.
- */
-export function claimSubject(row: { agencyId: string; technicianId: string; state: string; id?: string }): Record<string, unknown> {
-  return subject('Claim', { ...row }) as unknown as Record<string, unknown>;
+/** A plain claim row (or its scope fields) tagged for CASL checks; a copy, so the row itself stays untagged. */
+export function claimSubject<T extends { agencyId: string; technicianId: string; state: string }>(row: T) {
+  return subject('Claim', { ...row });
 }
 
 /** One claim row the user may read, or undefined (the caller answers 404). */
@@ -374,7 +371,7 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
     .from(claimEvents)
     .leftJoin(actor, eq(actor.id, claimEvents.actorId))
     .where(eq(claimEvents.claimId, row.id))
-    .orderBy(asc(claimEvents.at), asc(claimEvents.id))
+    .orderBy(asc(claimEvents.at), asc(sql`${claimEvents}.rowid`))
     .all();
 
   const author = alias(users, 'author');
@@ -385,7 +382,7 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
     .innerJoin(author, eq(author.id, comments.authorId))
     .innerJoin(authorOrg, eq(authorOrg.id, author.organisationId))
     .where(eq(comments.claimId, row.id))
-    .orderBy(asc(comments.createdAt), asc(comments.id))
+    .orderBy(asc(comments.createdAt), asc(sql`${comments}.rowid`))
     .all();
 
   return {

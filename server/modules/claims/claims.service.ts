@@ -33,7 +33,7 @@ import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError
 import type { Action, ClaimAction } from '@shared/permissions/ability';
 import type { ClaimDetail, ClaimDraftInput, ClaimListQuery } from '@shared/schemas/claim';
 import { FLAG_INFO, isFlagCode } from '@shared/calculations/flags';
-import { actionToEvent, allowedEvents, eventsFromState, isEditable, nextState, type ClaimEvent } from '@shared/workflow/claim-machine';
+import { actionToEvent, allowedEvents, editableStates, eventsFromState, isEditable, nextState, statesAllowing, type ClaimEvent } from '@shared/workflow/claim-machine';
 import { isReasonFor, reasonCodesFor } from '@shared/workflow/reason-codes';
 import { problemsAsFields } from '@shared/workflow/submit-validation';
 import type { AdjustmentsInput, CommentInput, TransitionInput } from '@shared/workflow/workflow-schemas';
@@ -73,6 +73,12 @@ export function createClaimsService(deps: AppDeps) {
   }
 
   const can = (a: Actor, action: Action, row: Claim) => a.ctx.ability.can(action, claimSubject(row));
+  /**
+   * Whether the user could take this action on this claim in some state where it is possible:
+   * false means the user is never allowed (403); true with the claim in another state means
+   * the move is refused now (409), e.g. a replayed approval.
+   */
+  const couldAct = (a: Actor, action: Action, row: Claim, states: readonly Claim['state'][]) => states.some((state) => a.ctx.ability.can(action, claimSubject({ ...row, state })));
 
   function readable(a: Actor, id: string): Claim {
     const row = findReadableClaim(db, a.ctx.ability, id);
@@ -250,9 +256,10 @@ export function createClaimsService(deps: AppDeps) {
 
   function update(a: Actor, id: string, body: ClaimDraftInput & { version: number }): ClaimDetail {
     const row = readable(a, id);
-    if (!can(a, 'update', row)) throw refuse(a, 'claim.update', id, new ForbiddenError('You may not edit this claim.'));
+    if (!couldAct(a, 'update', row, editableStates)) throw refuse(a, 'claim.update', id, new ForbiddenError('You may not edit this claim.'));
     if (!isEditable(row.state)) throw refuse(a, 'claim.update', id, new ConflictError('Only a draft or a returned claim can be edited.', 'not_editable'));
     if (row.version !== body.version) throw refuse(a, 'claim.update', id, staleError());
+    if (!can(a, 'update', row)) throw refuse(a, 'claim.update', id, new ForbiddenError('You may not edit this claim.'));
     let unit: UnitRef | null = null;
     if (body.serial !== undefined && body.serial.trim() !== '') {
       unit = findUnit(db, body.serial) ?? null;
@@ -292,11 +299,13 @@ export function createClaimsService(deps: AppDeps) {
     const type = actionToEvent[action];
     const auditAction = `claim.${action}`;
     const detail = { from: row.state, version: body.version };
-    if (!can(a, action, row)) throw refuse(a, auditAction, id, new ForbiddenError('You may not make this move on this claim.'), detail);
+    const forbidden = () => new ForbiddenError('You may not make this move on this claim.');
+    if (!couldAct(a, action, row, statesAllowing(type))) throw refuse(a, auditAction, id, forbidden(), detail);
+    if (row.version !== body.version) throw refuse(a, auditAction, id, staleError(), detail);
     if (!eventsFromState(row.state).includes(type)) {
       throw refuse(a, auditAction, id, new ConflictError(`A claim that is ${row.state.replace('_', ' ')} cannot take this move.`, 'transition_refused'), detail);
     }
-    if (row.version !== body.version) throw refuse(a, auditAction, id, staleError(), detail);
+    if (!can(a, action, row)) throw refuse(a, auditAction, id, forbidden(), detail);
 
     const reason = body.reason ?? null;
     const comment = body.comment && body.comment !== '' ? body.comment : null;
@@ -401,8 +410,11 @@ export function createClaimsService(deps: AppDeps) {
 
   function adjust(a: Actor, id: string, body: AdjustmentsInput): ClaimDetail {
     const row = readable(a, id);
-    if (!can(a, 'adjust', row)) throw refuse(a, 'claim.adjust', id, new ForbiddenError('Only the reviewer of a claim in review adjusts its lines.'));
+    const forbidden = new ForbiddenError('Only a warranty reviewer adjusts the lines of a claim in review.');
+    if (!couldAct(a, 'adjust', row, ['in_review'])) throw refuse(a, 'claim.adjust', id, forbidden);
     if (row.version !== body.version) throw refuse(a, 'claim.adjust', id, staleError());
+    if (row.state !== 'in_review') throw refuse(a, 'claim.adjust', id, new ConflictError('Lines are adjusted only while the claim is in review.', 'not_in_review'));
+    if (!can(a, 'adjust', row)) throw refuse(a, 'claim.adjust', id, forbidden);
     const inputs = loadClaimInputs(db, row);
     const fields: Record<string, string> = {};
     const laborIds = new Set(inputs.labor.map((l) => l.id));
