@@ -9,6 +9,9 @@ import { devRouter } from './modules/dev/dev.router';
 import { agencyRouter, postalCodesRouter } from './modules/agency/agency.router';
 import { invitationsRouter } from './modules/invitations/invitations.router';
 import { adminRouter } from './modules/admin/admin.router';
+import { paymentsRouter } from './modules/payments/payments.router';
+import { partReturnsRouter } from './modules/part-returns/part-returns.router';
+import { exportsRouter } from './modules/exports/exports.router';
 
 /**
  * Every API module is mounted here, in one list, so the authorization-matrix test can
@@ -24,6 +27,9 @@ export function mountApi(api: Router, deps: AppDeps): void {
   api.use('/postal-codes', postalCodesRouter());
   api.use('/invitations', invitationsRouter(deps));
   api.use('/admin', adminRouter(deps));
+  api.use('/payment-runs', paymentsRouter(deps));
+  api.use(partReturnsRouter(deps));
+  api.use('/exports', exportsRouter(deps));
   const dev = devRouter(deps);
   if (dev) api.use('/dev', dev);
 }
