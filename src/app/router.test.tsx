@@ -26,7 +26,6 @@ function fakeServer(initial: MeResponse | null) {
     }
     if (!session) return json({ error: { code: 'unauthenticated', message: 'Please sign in.' } }, { status: 401 });
     if (p === '/api/claims') return json({ items: [], nextCursor: null, total: 0 });
-    if (p === '/api/agencies') return json([]);
     if (p === '/api/home') return json({ role: 'reviewer', cards: [], notices: [] });
     if (p.startsWith('/api/claims/')) return json({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404 });
     return undefined;
@@ -52,6 +51,8 @@ describe('app routes', () => {
     expect(router.state.location.pathname).toBe('/sign-in');
     expect(router.state.location.search).toBe(`?redirectTo=${encodeURIComponent('/claims?state=submitted')}`);
     expect(screen.getByText('Demo accounts are printed by npm start')).toBeInTheDocument();
+    // The data loaders wait for the session check: nothing else is asked for while signed out.
+    expect(fake.calls.map((c) => c.url.pathname)).toEqual(['/api/auth/me']);
 
     const user = userEvent.setup();
     await user.type(screen.getByLabelText('E-mail'), 'someone@example.test');

@@ -1,20 +1,17 @@
-import { Navigate, Outlet, redirect, useLocation, useNavigate, type LoaderFunctionArgs } from 'react-router';
+import { Navigate, Outlet, useLocation, useNavigate, type LoaderFunctionArgs } from 'react-router';
 import type { QueryClient } from '@tanstack/react-query';
 import { AppShell } from '@/components/layouts/app-shell';
 import { FullPageSpinner } from '@/components/ui/spinner';
 import { paths, signInPath } from '@/config/paths';
-import { authQueries, useSession } from '@/features/auth/api/get-me';
+import { useSession } from '@/features/auth/api/get-me';
+import { requireSession } from '../require-session';
 import { useSignOut } from '@/features/auth/api/sign-out';
 
 /** Every signed-in screen sits under this route: no session, no screen. */
 export const appLayoutLoader =
   (queryClient: QueryClient) =>
   async ({ request }: LoaderFunctionArgs) => {
-    const me = await queryClient.ensureQueryData(authQueries.me());
-    if (!me) {
-      const url = new URL(request.url);
-      throw redirect(signInPath(url.pathname + url.search));
-    }
+    await requireSession(queryClient, request);
     return null;
   };
 

@@ -18,10 +18,12 @@ import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge'
 import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
 import { ClaimComments, ClaimTimeline } from '@/features/claims/components/claim-timeline';
 import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
+import { requireSession } from '../require-session';
 
 export const claimLoader =
   (queryClient: QueryClient) =>
-  async ({ params }: LoaderFunctionArgs) => {
+  async ({ params, request }: LoaderFunctionArgs) => {
+    await requireSession(queryClient, request);
     const id = params.id ?? '';
     // The valuation is computed on the server and may take longer: it loads beside the page.
     void queryClient.prefetchQuery(claimQueries.valuation(id));
@@ -84,8 +86,8 @@ function ValuationSection({ claimId }: { claimId: string }) {
           <Spinner label="Computing the valuation…" />
         ) : (
           <p>
-            The computed breakdown is not available{isApiError(valuation.error) && valuation.error.status !== 404 ? `: ${errorMessage(valuation.error)}` : '.'} The totals above are the
-            amounts stored on the claim.
+            The computed breakdown is not available yet.{isApiError(valuation.error) && valuation.error.status !== 404 ? ` ${errorMessage(valuation.error)}` : ''} The totals
+            above are the amounts stored on the claim.
           </p>
         )}
       </CardBody>

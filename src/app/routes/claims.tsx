@@ -12,10 +12,10 @@ import { useAppAbility } from '@/lib/ability';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { plural } from '@/lib/format';
 import { useSession } from '@/features/auth/api/get-me';
+import { requireSession } from '../require-session';
 import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaims } from '@/features/claims/api/get-claims';
-import { useAgencies, type AgencyOption } from '@/features/claims/api/get-agencies';
-import { ClaimFilterBar } from '@/features/claims/components/claim-filter-bar';
+import { ClaimFilterBar, type AgencyOption } from '@/features/claims/components/claim-filter-bar';
 import { ClaimsPager } from '@/features/claims/components/claims-pager';
 import { ClaimsTable, ClaimsTableSkeleton } from '@/features/claims/components/claims-table';
 import { CLAIMS_PAGE_SIZE, filtersToParams, hasNarrowingFilters, parseClaimFilters, type ClaimFilters } from '@/features/claims/filters';
@@ -23,6 +23,7 @@ import { CLAIMS_PAGE_SIZE, filtersToParams, hasNarrowingFilters, parseClaimFilte
 export const claimsLoader =
   (queryClient: QueryClient) =>
   async ({ request }: LoaderFunctionArgs) => {
+    await requireSession(queryClient, request);
     const filters = parseClaimFilters(new URL(request.url).searchParams);
     try {
       await queryClient.ensureQueryData(claimQueries.list(filters));
@@ -38,14 +39,16 @@ interface PagingState {
   cursors?: string[];
 }
 
+/**
+ * The agencies a manufacturer user can filter by: every agency seen in the claims loaded
+ * this visit (the API offers reviewers no agency list of its own).
+ */
 function useKnownAgencies(enabled: boolean, items: ClaimListItem[] | undefined, selected: string | undefined): AgencyOption[] | null {
-  const listed = useAgencies(enabled);
   const seen = useRef(new Map<string, string>());
   for (const c of items ?? []) seen.current.set(c.agencyId, c.agencyName);
   if (!enabled) return null;
   const byId = new Map<string, string>(seen.current);
-  for (const a of listed.data ?? []) byId.set(a.id, a.name);
-  if (selected && !byId.has(selected)) byId.set(selected, selected);
+  if (selected && !byId.has(selected)) byId.set(selected, 'Chosen agency');
   return [...byId].map(([id, name]) => ({ id, name })).sort((a, b) => a.name.localeCompare(b.name));
 }
 

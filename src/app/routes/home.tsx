@@ -1,3 +1,4 @@
+import type { LoaderFunctionArgs } from 'react-router';
 import type { QueryClient } from '@tanstack/react-query';
 import { roleLabels } from '@shared/permissions/ability';
 import { Alert } from '@/components/ui/alert';
@@ -6,11 +7,13 @@ import { EmptyState } from '@/components/ui/empty-state';
 import { Skeleton } from '@/components/ui/skeleton';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { useSession } from '@/features/auth/api/get-me';
+import { requireSession } from '../require-session';
 import { homeQueries, useHome } from '@/features/home/api/get-home';
 import { HomeCard } from '@/features/home/components/home-card';
 import { HomeNotices } from '@/features/home/components/home-notices';
 
-export const homeLoader = (queryClient: QueryClient) => async () => {
+export const homeLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
+  await requireSession(queryClient, request);
   try {
     await queryClient.ensureQueryData(homeQueries.home());
   } catch (e) {

@@ -85,9 +85,11 @@ export function AppShell({ user, organisation, onSignOut, signingOut = false, ch
               <span className="block font-medium">{user.name}</span>
               <span className="block text-ink-200">{roleLabels[user.role] ?? user.role}</span>
             </p>
-            <Button variant="secondary" size="sm" onClick={onSignOut} pending={signingOut} className="hidden border-ink-500 bg-ink-700 text-white hover:bg-ink-600 md:inline-flex">
-              Sign out
-            </Button>
+            <div className="hidden md:block">
+              <Button variant="inverse" size="sm" onClick={onSignOut} pending={signingOut}>
+                Sign out
+              </Button>
+            </div>
             <button
               type="button"
               className="inline-flex min-h-10 items-center gap-2 rounded-md border border-ink-500 px-3 text-sm md:hidden"
@@ -127,7 +129,7 @@ export function AppShell({ user, organisation, onSignOut, signingOut = false, ch
               <span className="font-medium">{user.name}</span> · <span className="text-ink-200">{roleLabels[user.role] ?? user.role}</span>
             </p>
             <p className="text-sm text-ink-200">{organisation.name}</p>
-            <Button variant="secondary" size="sm" onClick={onSignOut} pending={signingOut} className="mt-2 border-ink-500 bg-ink-700 text-white hover:bg-ink-600">
+            <Button variant="inverse" size="sm" onClick={onSignOut} pending={signingOut} className="mt-2">
               Sign out
             </Button>
           </div>

@@ -3,7 +3,7 @@ import { Link } from 'react-router';
 import { cx } from '@/lib/cx';
 import { Spinner } from './spinner';
 
-export type ButtonVariant = 'primary' | 'secondary' | 'ghost' | 'danger';
+export type ButtonVariant = 'primary' | 'secondary' | 'ghost' | 'danger' | 'inverse';
 export type ButtonSize = 'sm' | 'md';
 
 const variants: Record<ButtonVariant, string> = {
@@ -11,6 +11,8 @@ const variants: Record<ButtonVariant, string> = {
   secondary: 'border border-ink-300 bg-white text-ink-800 hover:bg-ink-50 disabled:text-ink-300 disabled:border-ink-100',
   ghost: 'text-ink-700 hover:bg-ink-50 disabled:text-ink-300',
   danger: 'bg-red-700 text-white hover:bg-red-800 disabled:bg-red-300',
+  /** On the dark header. */
+  inverse: 'border border-ink-400 bg-transparent text-white hover:bg-ink-700 disabled:text-ink-300',
 };
 const sizes: Record<ButtonSize, string> = {
   sm: 'min-h-9 px-3 text-sm',

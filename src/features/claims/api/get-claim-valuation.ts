@@ -14,6 +14,7 @@ export function claimValuationQuery(id: string) {
   });
 }
 
+/** A claim that cannot be valued yet answers 409 once; opening the page does not ask again. */
 export function useClaimValuation(id: string) {
-  return useQuery(claimValuationQuery(id));
+  return useQuery({ ...claimValuationQuery(id), retryOnMount: false });
 }

@@ -3,7 +3,11 @@ import { claimStateLabels, claimStates, type ClaimState } from '@shared/schemas/
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
 import type { ClaimFilters } from '../filters';
-import type { AgencyOption } from '../api/get-agencies';
+
+export interface AgencyOption {
+  id: string;
+  name: string;
+}
 
 export interface ClaimFilterBarProps {
   filters: ClaimFilters;
@@ -50,14 +54,14 @@ export function ClaimFilterBar({ filters, onChange, agencies, states = claimStat
   const label = 'block text-xs font-semibold uppercase tracking-wide text-ink-700';
 
   return (
-    <form role="search" aria-label="Filter claims" onSubmit={submit} key={key} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-[minmax(14rem,2fr)_repeat(4,minmax(8rem,1fr))_auto] lg:items-end">
-      <div>
+    <form role="search" aria-label="Filter claims" onSubmit={submit} key={key} className="grid grid-cols-2 gap-3 lg:grid-cols-[minmax(14rem,2fr)_repeat(4,minmax(8rem,1fr))_auto] lg:items-end">
+      <div className="col-span-2 lg:col-span-1">
         <label htmlFor={`${id}-q`} className={label}>
           Search
         </label>
         <Input id={`${id}-q`} name="q" type="search" defaultValue={filters.q ?? ''} placeholder="Claim number or serial" autoComplete="off" enterKeyHint="search" />
       </div>
-      <div>
+      <div className={agencies && agencies.length > 0 ? 'col-span-2 sm:col-span-1' : 'col-span-2 lg:col-span-1'}>
         <label htmlFor={`${id}-state`} className={label}>
           State
         </label>
@@ -71,7 +75,7 @@ export function ClaimFilterBar({ filters, onChange, agencies, states = claimStat
         </Select>
       </div>
       {agencies && agencies.length > 0 ? (
-        <div>
+        <div className="col-span-2 sm:col-span-1">
           <label htmlFor={`${id}-agency`} className={label}>
             Service agency
           </label>
@@ -99,7 +103,7 @@ export function ClaimFilterBar({ filters, onChange, agencies, states = claimStat
         </label>
         <Input id={`${id}-to`} name="to" type="date" defaultValue={filters.to ?? ''} min={filters.from} onBlur={applyDate} />
       </div>
-      <div className="flex gap-2">
+      <div className="col-span-2 flex gap-2 lg:col-span-1">
         <Button type="submit">Search</Button>
         <Button type="button" variant="ghost" onClick={() => onChange({ sort: filters.sort, dir: filters.dir })}>
           Clear

@@ -38,8 +38,10 @@ function Section({ title, children }: { title: string; children: ReactNode }) {
  */
 export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation?: Valuation | null }) {
   const cur = claim.currency;
-  const claimedById = new Map((valuation?.lines ?? []).map((l) => [l.id, l.claimedCents]));
-  const travelClaimed = valuation ? valuation.lines.filter((l) => l.kind === 'travel_distance' || l.kind === 'travel_time').reduce((s, l) => s + l.claimedCents, 0) : null;
+  // Claimed = the line as the agency entered it (these add up to the claimed total);
+  // what the rules allow is in the valuation below.
+  const claimedById = new Map((valuation?.lines ?? []).map((l) => [l.id, l.requestedCents]));
+  const travelClaimed = valuation ? valuation.lines.filter((l) => l.kind === 'travel_distance' || l.kind === 'travel_time').reduce((s, l) => s + l.requestedCents, 0) : null;
   const empty = claim.laborLines.length === 0 && !claim.travel && claim.partLines.length === 0;
 
   return (
@@ -47,7 +49,7 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
       <CardHeader
         id="claim-lines"
         title="Labor, travel and parts"
-        description={valuation ? 'Claimed amounts follow the repair-code allowances, contract caps and coverage.' : 'Per-line claimed amounts appear once the valuation is available.'}
+        description={empty ? undefined : valuation ? 'Claimed is what the agency entered; approved is what the reviewer decided.' : 'Per-line claimed amounts appear once the valuation is available.'}
       />
       <div className="space-y-5 py-3">
         {empty && <CardBody className="text-sm text-ink-600">No lines entered yet.</CardBody>}

@@ -21,7 +21,7 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
   ];
   return (
     <Card aria-labelledby="claim-valuation">
-      <CardHeader id="claim-valuation" title="Valuation" description="How each amount was computed." />
+      <CardHeader id="claim-valuation" title="Valuation" description="What the rules allow for each line, and why. Open a line for its working." />
       <CardBody className="space-y-5">
         <section aria-label="Coverage" className="grid gap-2 sm:grid-cols-2">
           {(['parts', 'labor'] as const).map((k) => {
@@ -83,8 +83,18 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
                       )}
                     </span>
                     <span className="tabular-nums">
-                      <span className="text-ink-600">claimed</span> {formatCents(l.claimedCents, cur)} <span className="text-ink-600">· approved</span>{' '}
-                      {formatCents(l.approvedCents, cur)}
+                      {l.requestedCents !== l.claimedCents && (
+                        <span className="text-ink-600">
+                          entered <s>{formatCents(l.requestedCents, cur)}</s> ·{' '}
+                        </span>
+                      )}
+                      <span className="text-ink-600">by the rules</span> {formatCents(l.claimedCents, cur)}
+                      {l.adjustment && (
+                        <>
+                          {' '}
+                          <span className="text-ink-600">· after review</span> {formatCents(l.approvedCents, cur)}
+                        </>
+                      )}
                     </span>
                   </summary>
                   <div className="space-y-2 border-t border-ink-100 px-3 py-2 text-sm">
@@ -129,13 +139,13 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
           </section>
         )}
 
-        <Table caption="Totals requested, claimed and approved">
+        <Table caption="Totals as entered, by the rules and after review">
           <THead>
             <Tr>
               <Th />
               <Th className="text-right">As entered</Th>
-              <Th className="text-right">Claimed</Th>
-              <Th className="text-right">Approved</Th>
+              <Th className="text-right">By the rules</Th>
+              <Th className="text-right">After review</Th>
             </Tr>
           </THead>
           <TBody>
