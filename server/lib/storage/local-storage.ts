@@ -40,7 +40,7 @@ export class LocalStorage implements Storage {
     return p;
   }
 
-  async put(key: string, data: Buffer): Promise<void> {
+  async put(key: string, data: Buffer, _contentType?: string): Promise<void> {
     const final = this.path(key);
     const tmpDir = join(this.root, TEMP_DIR);
     await mkdir(tmpDir, { recursive: true });

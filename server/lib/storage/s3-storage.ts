@@ -1,12 +1,4 @@
-import {
-  DeleteObjectCommand,
-  GetObjectCommand,
-  HeadObjectCommand,
-  ListObjectsV2Command,
-  PutObjectCommand,
-  S3Client,
-  type S3ClientConfig,
-} from '@aws-sdk/client-s3';
+import type { S3Client, S3ClientConfig } from '@aws-sdk/client-s3';
 import { Readable } from 'node:stream';
 import { assertKey, type ObjectInfo, type Storage } from './storage';
 
@@ -25,6 +17,11 @@ function isNotFound(e: unknown): boolean {
   return err?.name === 'NoSuchKey' || err?.name === 'NotFound' || err?.$metadata?.httpStatusCode === 404;
 }
 
+type Sdk = typeof import('@aws-sdk/client-s3');
+let sdk: Promise<Sdk> | null = null;
+/** The SDK is loaded on first use, so a server on the local disk never pays for it. */
+const loadSdk = (): Promise<Sdk> => (sdk ??= import('@aws-sdk/client-s3'));
+
 /**
  * S3-compatible object storage through the AWS SDK v3, so several app servers share evidence.
  * A PutObject is atomic on the server side (the object appears whole or not at all), so there
@@ -32,8 +29,9 @@ function isNotFound(e: unknown): boolean {
  */
 export class S3Storage implements Storage {
   readonly driver = 's3' as const;
-  readonly client: S3Client;
   readonly bucket: string;
+  private readonly config: S3ClientConfig;
+  private clientPromise: Promise<{ client: S3Client; sdk: Sdk }> | null = null;
 
   constructor(opts: S3StorageOptions) {
     const config: S3ClientConfig = {
@@ -48,14 +46,19 @@ export class S3Storage implements Storage {
     if (opts.accessKeyId && opts.secretAccessKey) {
       config.credentials = { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey };
     }
-    this.client = new S3Client(config);
+    this.config = config;
     this.bucket = opts.bucket;
+  }
+
+  private connect() {
+    return (this.clientPromise ??= loadSdk().then((m) => ({ client: new m.S3Client(this.config), sdk: m })));
   }
 
   async put(key: string, data: Buffer, contentType: string): Promise<void> {
     assertKey(key);
-    await this.client.send(
-      new PutObjectCommand({ Bucket: this.bucket, Key: key, Body: data, ContentType: contentType, ContentLength: data.length }),
+    const { client, sdk: m } = await this.connect();
+    await client.send(
+      new m.PutObjectCommand({ Bucket: this.bucket, Key: key, Body: data, ContentType: contentType, ContentLength: data.length }),
     );
   }
 
@@ -69,8 +72,9 @@ export class S3Storage implements Storage {
 
   async open(key: string) {
     assertKey(key);
+    const { client, sdk: m } = await this.connect();
     try {
-      const out = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
+      const out = await client.send(new m.GetObjectCommand({ Bucket: this.bucket, Key: key }));
       const body = out.Body;
       if (!body) return null;
       const stream = body instanceof Readable ? body : Readable.fromWeb(body as never);
@@ -83,8 +87,9 @@ export class S3Storage implements Storage {
 
   async stat(key: string): Promise<ObjectInfo | null> {
     assertKey(key);
+    const { client, sdk: m } = await this.connect();
     try {
-      const out = await this.client.send(new HeadObjectCommand({ Bucket: this.bucket, Key: key }));
+      const out = await client.send(new m.HeadObjectCommand({ Bucket: this.bucket, Key: key }));
       return { key, size: Number(out.ContentLength ?? 0), modifiedAt: out.LastModified ?? new Date(0) };
     } catch (e) {
       if (isNotFound(e)) return null;
@@ -94,18 +99,20 @@ export class S3Storage implements Storage {
 
   async delete(key: string): Promise<void> {
     assertKey(key);
+    const { client, sdk: m } = await this.connect();
     try {
-      await this.client.send(new DeleteObjectCommand({ Bucket: this.bucket, Key: key }));
+      await client.send(new m.DeleteObjectCommand({ Bucket: this.bucket, Key: key }));
     } catch (e) {
       if (!isNotFound(e)) throw e;
     }
   }
 
   async *list(prefix = ''): AsyncIterable<ObjectInfo> {
+    const { client, sdk: m } = await this.connect();
     let token: string | undefined;
     do {
-      const out = await this.client.send(
-        new ListObjectsV2Command({ Bucket: this.bucket, Prefix: prefix || undefined, ContinuationToken: token }),
+      const out = await client.send(
+        new m.ListObjectsV2Command({ Bucket: this.bucket, Prefix: prefix || undefined, ContinuationToken: token }),
       );
       for (const o of out.Contents ?? []) {
         if (o.Key) yield { key: o.Key, size: Number(o.Size ?? 0), modifiedAt: o.LastModified ?? new Date(0) };
