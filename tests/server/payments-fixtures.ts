@@ -51,15 +51,30 @@ export interface ApprovedClaimSpec {
   repairDate?: string;
   number?: string;
   currency?: string;
+  /** A unit of its own with this serial (the first unit of the demo otherwise). */
+  unitSerial?: string;
+  /** A technician of its own with this name, in the claim's agency. */
+  technicianName?: string;
 }
 
 /** An approved claim as the approval transaction leaves it. Returns its id and number. */
 export function insertApprovedClaim(t: TestApp, spec: ApprovedClaimSpec = {}): { id: string; number: string; totalCents: number } {
   const agency = agencyId(t, spec.agency ?? HARBORVIEW);
   const techEmail = spec.technicianEmail ?? (agency === agencyId(t, HARBORVIEW) ? 'tech@harborview.test' : 'tech@prairieline.test');
-  const tech = userId(t, techEmail);
+  seq += 1;
+  let tech = userId(t, techEmail);
+  if (spec.technicianName !== undefined) {
+    tech = newId();
+    const now = new Date().toISOString();
+    t.db.insert(users).values({ id: tech, organisationId: agency, role: 'technician', email: `tech-${seq}@fixture.test`, name: spec.technicianName, passwordHash: null, createdAt: now, updatedAt: now }).run();
+  }
   const decider = userId(t, spec.decidedByEmail ?? 'reviewer@larkfield.test');
-  const unit = t.db.select().from(units).orderBy(units.serial).limit(1).get()!;
+  let unit = t.db.select().from(units).orderBy(units.serial).limit(1).get()!;
+  if (spec.unitSerial !== undefined) {
+    const own = { ...unit, id: newId(), serial: spec.unitSerial };
+    t.db.insert(units).values(own).run();
+    unit = own;
+  }
   const code = t.db.select().from(repairCodes).limit(1).get()!;
   const part = t.db.select().from(parts).limit(1).get()!;
   const labor = spec.laborCents ?? 12_000;
@@ -68,7 +83,6 @@ export function insertApprovedClaim(t: TestApp, spec: ApprovedClaimSpec = {}): {
   const partsCents = partList.reduce((s, p) => s + p.cents, 0);
   const total = labor + travel + partsCents;
   const id = newId();
-  seq += 1;
   const number = spec.number ?? `FP-2026-${String(900_000 + seq).padStart(6, '0')}`;
   const decidedAt = `${spec.decidedOn ?? '2026-06-10'}T15:00:00.000Z`;
   const created = '2026-06-01T09:00:00.000Z';
