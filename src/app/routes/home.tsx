@@ -68,7 +68,7 @@ export function HomeRoute() {
           ) : (
             <div className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3">
               {home.data.cards.map((card) => (
-                <HomeCard key={card.key} card={card} />
+                <HomeCard key={card.key} card={card} showAgency={me?.organisation.kind !== 'agency'} />
               ))}
             </div>
           )}

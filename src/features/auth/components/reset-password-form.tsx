@@ -65,7 +65,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
       )}
       <Field
         label="New password"
-        hint={`At least ${MIN_PASSWORD_LENGTH} characters. A few unrelated words make a strong one; no symbols needed.`}
+        hint={`At least ${MIN_PASSWORD_LENGTH} characters; no symbols or digits needed.`}
         error={errors.password?.message}
       >
         {(p) => <Input {...p} type="password" autoComplete="new-password" {...register('password')} />}

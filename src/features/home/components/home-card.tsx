@@ -11,7 +11,7 @@ const toneBar: Record<HomeCardData['tone'], string> = {
 };
 
 /** One queue: how many wait, what to do, and the oldest few, each one tap away. */
-export function HomeCard({ card, now }: { card: HomeCardData; now?: Date }) {
+export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData; now?: Date; showAgency?: boolean }) {
   const headingId = `home-card-${card.key}`;
   return (
     <section aria-labelledby={headingId} className={cx('flex flex-col rounded-lg border border-t-4 border-ink-100 bg-white shadow-sm', toneBar[card.tone])}>
@@ -38,7 +38,7 @@ export function HomeCard({ card, now }: { card: HomeCardData; now?: Date }) {
                   <Link to={paths.claim(c.id)} className="flex items-center justify-between gap-3 px-4 py-2.5 text-sm hover:bg-paper">
                     <span className="min-w-0">
                       <span className="block font-mono font-medium text-ink-800">{c.number}</span>
-                      <span className="block truncate text-ink-600">{c.agencyName}</span>
+                      <span className="block truncate text-ink-600">{showAgency ? c.agencyName : [c.technicianName, c.modelNumber].filter(Boolean).join(' · ')}</span>
                     </span>
                     <span className="shrink-0 text-right">
                       <span className="block tabular-nums font-medium">{formatCents(c.claimedTotalCents, c.currency)}</span>
