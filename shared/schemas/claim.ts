@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { ValuationInput } from '../calculations/valuation';
 
 export const claimStates = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
 export type ClaimState = (typeof claimStates)[number];
@@ -137,4 +138,13 @@ export interface ClaimDetail extends ClaimListItem {
   comments: Array<{ id: string; body: string; createdAt: string; authorName: string; authorOrganisation: string }>;
   /** Moves the workflow allows from this state AND this user's abilities allow. */
   allowedActions: string[];
+}
+
+/** GET /api/claims/:id/valuation-input: what the live preview computes over, from the stored claim. */
+export interface ClaimValuationBasis {
+  claimId: string;
+  version: number;
+  /** Null while the claim cannot be valued (no unit, no dates, no contract terms on the repair date). */
+  input: ValuationInput | null;
+  problems: Array<{ path: string; message: string }>;
 }

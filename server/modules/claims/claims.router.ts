@@ -42,6 +42,10 @@ export function claimsRouter(deps: AppDeps): Router {
     res.json(service.valuation(actor(req), req.params.id));
   });
 
+  r.get('/:id/valuation-input', (req, res) => {
+    res.json(service.valuationBasis(actor(req), req.params.id));
+  });
+
   r.post('/:id/comments', (req, res) => {
     res.status(201).json(service.comment(actor(req), req.params.id, parseBody(commentSchema, req.body)));
   });

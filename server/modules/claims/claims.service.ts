@@ -31,14 +31,14 @@ import { newId } from '../../lib/ids';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import type { Action, ClaimAction } from '@shared/permissions/ability';
-import type { ClaimDetail, ClaimDraftInput, ClaimListQuery } from '@shared/schemas/claim';
+import type { ClaimDetail, ClaimDraftInput, ClaimListQuery, ClaimValuationBasis } from '@shared/schemas/claim';
 import { FLAG_INFO, isFlagCode } from '@shared/calculations/flags';
 import { actionToEvent, allowedEvents, editableStates, eventsFromState, isEditable, nextState, statesAllowing, type ClaimEvent } from '@shared/workflow/claim-machine';
 import { isReasonFor, reasonCodesFor } from '@shared/workflow/reason-codes';
 import { problemsAsFields } from '@shared/workflow/submit-validation';
 import type { AdjustmentsInput, CommentInput, TransitionInput } from '@shared/workflow/workflow-schemas';
 import { claimSubject, findReadableClaim, listClaims, loadClaimDetail, type ClaimListPage } from './claims.queries';
-import { evaluateClaim, loadClaimInputs, valueFromInputs } from './valuation.builder';
+import { evaluateClaim, loadClaimInputs, valuationInputOf, valueFromInputs } from './valuation.builder';
 import type { Valuation } from '@shared/calculations/valuation';
 import { queueMoveMail } from './claims.mail';
 
@@ -117,6 +117,18 @@ export function createClaimsService(deps: AppDeps) {
       throw new AppError(409, 'valuation_unavailable', `The claim cannot be valued yet. ${result.problems.map((p) => p.message).join(' ')}`.trim(), fields);
     }
     return { claimId: row.id, version: row.version, state: row.state, ...result.valuation };
+  }
+
+  /**
+   * The valuation input of the claim as stored (contract terms in force on the repair date,
+   * warranty terms, coordinates, certifications, prior repairs), so the form's live preview
+   * runs the same computation in the browser over the lines being typed. Null with the
+   * missing inputs as problems while the claim cannot be valued yet.
+   */
+  function valuationBasis(a: Actor, id: string): ClaimValuationBasis {
+    const row = readable(a, id);
+    const { input, problems } = valuationInputOf(loadClaimInputs(db, row), today());
+    return { claimId: row.id, version: row.version, input, problems };
   }
 
   // ---- drafts ------------------------------------------------------------------------------
@@ -506,7 +518,7 @@ export function createClaimsService(deps: AppDeps) {
     return { id: commentId, body: body.body, createdAt: now, authorName: user.name, authorOrganisation: org?.name ?? '' };
   }
 
-  return { list, get, create, update, transition, adjust, comment, valuation };
+  return { list, get, create, update, transition, adjust, comment, valuation, valuationBasis };
 }
 
 export type ClaimsService = ReturnType<typeof createClaimsService>;
