@@ -1,6 +1,7 @@
 import { and, asc, desc, eq, gte, lte, or, sql, type SQL } from 'drizzle-orm';
-import { alias } from 'drizzle-orm/sqlite-core';
+import { alias, QueryBuilder, SQLiteSyncDialect } from 'drizzle-orm/sqlite-core';
 import { subject } from '@casl/ability';
+import type { Statement } from 'better-sqlite3';
 import type { Db } from '../../db/client';
 import {
   attachments,
@@ -159,31 +160,84 @@ export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): Clai
         : (or(sql`${key} < ${v}`, and(sql`${key} = ${v}`, sql`${claims.id} < ${c.id}`)) as SQL),
     );
   }
-  const rows = db
-    .select({ ...listItemColumns, sortValue: sql<SortValue>`${key}` })
-    .from(claims)
-    .innerJoin(organisations, eq(organisations.id, claims.agencyId))
-    .innerJoin(technician, eq(technician.id, claims.technicianId))
-    .leftJoin(units, eq(units.id, claims.unitId))
-    .leftJoin(models, eq(models.id, units.modelId))
-    .leftJoin(sites, eq(sites.id, claims.siteId))
-    .where(and(...where))
-    .orderBy(order(key), order(claims.id))
-    .limit(q.limit + 1)
-    .all();
+  const w = dialect.sqlToQuery(and(...where) as SQL);
+  const pageSql = `${listSelectSql(q.sort)} where ${w.sql} order by ${sortSql(q.sort)} ${q.dir}, "claims"."id" ${q.dir} limit ?`;
+  const rows = cachedRaw(db, pageSql).all(...w.params, q.limit + 1) as unknown[][];
 
-  const countBase = db.select({ n: sql<number>`count(*)` }).from(claims);
-  const countRow = (q.q ? countBase.leftJoin(units, eq(units.id, claims.unitId)) : countBase).where(and(scope, ...filters)).get();
+  const c = dialect.sqlToQuery(and(scope, ...filters) as SQL);
+  const countSql = `select count(*) from "claims"${q.q ? ' left join "units" on "units"."id" = "claims"."unit_id"' : ''} where ${c.sql}`;
+  const countRow = cachedRaw(db, countSql).get(...c.params) as [number] | undefined;
 
   const more = rows.length > q.limit;
   const page = more ? rows.slice(0, q.limit) : rows;
+  const items = page.map(toListItem);
   const last = page[page.length - 1];
-  const items = page.map(({ sortValue: _s, ...item }) => item as ClaimListItem);
   return {
     items,
-    nextCursor: more && last ? encodeCursor({ sort: q.sort, dir: q.dir, value: last.sortValue, id: last.id }) : null,
-    total: countRow?.n ?? 0,
+    nextCursor: more && last ? encodeCursor({ sort: q.sort, dir: q.dir, value: last[LIST_KEYS.length] as SortValue, id: last[0] as string }) : null,
+    total: countRow?.[0] ?? 0,
   };
+}
+
+const dialect = new SQLiteSyncDialect();
+const selectSqlBySort = new Map<SortKey, string>();
+const sortSqlByKey = new Map<SortKey, string>();
+
+/** The select list and joins of the page (built once per sort key by the query builder). */
+function listSelectSql(sort: SortKey): string {
+  let text = selectSqlBySort.get(sort);
+  if (!text) {
+    text = new QueryBuilder()
+      .select({ ...listItemColumns, sortValue: sortExpr[sort] })
+      .from(claims)
+      .innerJoin(organisations, eq(organisations.id, claims.agencyId))
+      .innerJoin(technician, eq(technician.id, claims.technicianId))
+      .leftJoin(units, eq(units.id, claims.unitId))
+      .leftJoin(models, eq(models.id, units.modelId))
+      .leftJoin(sites, eq(sites.id, claims.siteId))
+      .toSQL().sql;
+    selectSqlBySort.set(sort, text);
+  }
+  return text;
+}
+
+function sortSql(sort: SortKey): string {
+  let text = sortSqlByKey.get(sort);
+  if (!text) sortSqlByKey.set(sort, (text = dialect.sqlToQuery(sortExpr[sort]).sql));
+  return text;
+}
+
+/**
+ * Prepared statements of the list, by SQL text. The text depends only on the shape of the
+ * user's rules, the filters present, the sort and the cursor, so there are few of them; the
+ * values are bound. Preparing a six-table join costs more than running it, so the hot path
+ * prepares once, and reads rows as arrays (mapped below) rather than through the ORM's mapper.
+ */
+const statementCache = new WeakMap<object, Map<string, Statement>>();
+const STATEMENT_CACHE_SIZE = 256;
+
+function cachedRaw(db: Db, text: string): Statement {
+  let cache = statementCache.get(db.$client);
+  if (!cache) statementCache.set(db.$client, (cache = new Map()));
+  let stmt = cache.get(text);
+  if (!stmt) {
+    stmt = db.$client.prepare(text).raw(true);
+    if (cache.size >= STATEMENT_CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+    cache.set(text, stmt);
+  }
+  return stmt;
+}
+
+/** Keys of listItemColumns in select order (the order of the row arrays). */
+const LIST_KEYS = Object.keys(listItemColumns) as (keyof ClaimListItem)[];
+const FLAGS_INDEX = LIST_KEYS.indexOf('flags');
+
+function toListItem(row: unknown[]): ClaimListItem {
+  const item: Record<string, unknown> = {};
+  for (let i = 0; i < LIST_KEYS.length; i++) item[LIST_KEYS[i]] = row[i];
+  const flags = row[FLAGS_INDEX];
+  item.flags = typeof flags === 'string' ? (JSON.parse(flags) as string[]) : [];
+  return item as unknown as ClaimListItem;
 }
 
 /** Scoped list rows for a given extra condition (home page, unit history), newest or oldest first. */
