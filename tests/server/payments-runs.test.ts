@@ -20,8 +20,8 @@ afterAll(async () => {
   await t.close();
 });
 
-const createRun = (body: unknown) => agents.accountant.post('/api/payment-runs').send(body);
-const markPaid = (runId: string, body: unknown = { paymentDate: '2026-06-15', reference: 'ACH 000123' }) => agents.accountant.post(`/api/payment-runs/${runId}/paid`).send(body);
+const createRun = (body: object) => agents.accountant.post('/api/payment-runs').send(body);
+const markPaid = (runId: string, body: object = { paymentDate: '2026-06-15', reference: 'ACH 000123' }) => agents.accountant.post(`/api/payment-runs/${runId}/paid`).send(body);
 
 describe('ready to pay', () => {
   it('lists approved claims with settled returns, grouped by agency with totals, and leaves out the rest', async () => {

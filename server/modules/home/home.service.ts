@@ -11,6 +11,8 @@ import { addDays } from '@shared/calculations/dates';
 import type { ClaimState } from '@shared/schemas/claim';
 import type { HomeCard, HomeResponse } from '@shared/schemas/home';
 import { countClaimsWhere, listClaimsWhere } from '../claims/claims.queries';
+import { overdueReturns, returnsSettled } from '../part-returns/part-returns.queries';
+import { PART_RETURN_OVERDUE_DAYS } from '@shared/schemas/payment';
 
 const ITEMS = 5;
 
@@ -37,6 +39,19 @@ export function createHomeService(deps: AppDeps) {
 
   /** Approved claims with a part still to come back. */
   const awaitingReturn = sql`exists (select 1 from ${claimPartLines} where ${claimPartLines.claimId} = ${claims.id} and ${claimPartLines.returnStatus} in ('awaiting', 'shipped'))`;
+
+  /** A notice of approved claims whose required part returns are overdue, when there are any. */
+  function overdueNotice(ctx: RequestContext, notices: HomeResponse['notices']) {
+    const n = countClaimsWhere(db, ctx.ability, overdueReturns(today(deps.clock)));
+    if (n > 0) {
+      notices.push({
+        key: 'part_returns_overdue',
+        message: `${n} approved claim${n === 1 ? ' has' : 's have'} a part return overdue (not settled ${PART_RETURN_OVERDUE_DAYS} days after approval).`,
+        href: '/claims?state=approved',
+        tone: 'warning',
+      });
+    }
+  }
 
   function home(ctx: RequestContext): HomeResponse {
     const { user } = ctx;
@@ -66,6 +81,7 @@ export function createHomeService(deps: AppDeps) {
         if (soon && soon.n > 0) {
           notices.push({ key: 'certifications_expiring', message: `${soon.n} technician certification${soon.n === 1 ? '' : 's'} expire within 30 days.`, href: '/users', tone: 'warning' });
         }
+        overdueNotice(ctx, notices);
         break;
       }
       case 'reviewer':
@@ -74,12 +90,13 @@ export function createHomeService(deps: AppDeps) {
           claimCard(ctx, { key: 'my_reviews', label: 'Your reviews in progress', hint: 'Approve, return or deny', where: and(inState('in_review'), eq(claims.reviewerId, user.id)) as SQL, href: '/claims?state=in_review', tone: 'action', order: 'oldest_submitted' }),
           claimCard(ctx, { key: 'returned_to_agency', label: 'Returned to agencies', hint: 'Waiting for the agency to resubmit', where: inState('returned'), href: '/claims?state=returned', tone: 'info' }),
         ];
+        overdueNotice(ctx, notices);
         break;
       case 'accountant': {
         const notInRun = sql`not exists (select 1 from ${paymentRunItems} where ${paymentRunItems.claimId} = ${claims.id} and ${paymentRunItems.active} = 1)`;
         const openRuns = db.select({ n: sql<number>`count(*)` }).from(paymentRuns).where(eq(paymentRuns.state, 'open')).get()?.n ?? 0;
         cards = [
-          claimCard(ctx, { key: 'ready_to_pay', label: 'Approved, ready to pay', hint: 'Put them in a payment run', where: and(inState('approved'), notInRun) as SQL, href: '/payment-runs', tone: 'action', order: 'oldest_decided' }),
+          claimCard(ctx, { key: 'ready_to_pay', label: 'Approved, ready to pay', hint: 'Put them in a payment run', where: and(inState('approved'), notInRun, returnsSettled) as SQL, href: '/payment-runs', tone: 'action', order: 'oldest_decided' }),
           countCard('open_runs', 'Open payment runs', 'Mark them paid once the remittance is sent', openRuns, '/payment-runs', openRuns > 0 ? 'action' : 'info'),
         ];
         break;
