@@ -31,7 +31,7 @@ export interface PhotoIntakeResult {
 export async function twelveMegapixelJpeg(): Promise<Buffer> {
   const width = 4000;
   const height = 3000;
-  const noise = await sharp({ create: { width, height, channels: 3, noise: { type: 'gaussian', mean: 128, sigma: 18 } } }).png().toBuffer();
+  const noise = await sharp({ create: { width, height, channels: 3, background: '#808080', noise: { type: 'gaussian', mean: 128, sigma: 18 } } }).png().toBuffer();
   return sharp(Buffer.from(sceneSvg(4242, width, height)))
     .composite([{ input: noise, blend: 'soft-light' }])
     .jpeg({ quality: 90 })
