@@ -3,7 +3,8 @@ import userEvent from '@testing-library/user-event';
 import { createMemoryRouter, RouterProvider } from 'react-router';
 import type { MeResponse } from '@shared/schemas/user';
 import { installFakeFetch, json } from '@/testing/fake-fetch';
-import { meFor, testQueryClient } from '@/testing/render';
+import { meFor } from '@/testing/render';
+import { createAppQueryClient } from './app';
 import { AppProvider } from './provider';
 import { appRoutes } from './router';
 
@@ -33,7 +34,7 @@ function fakeServer(initial: MeResponse | null) {
 }
 
 function renderApp(path: string) {
-  const queryClient = testQueryClient();
+  const queryClient = createAppQueryClient();
   const router = createMemoryRouter(appRoutes(queryClient), { initialEntries: [path] });
   render(
     <AppProvider queryClient={queryClient}>
@@ -73,6 +74,37 @@ describe('app routes', () => {
     expect(router.state.location.pathname).toBe('/sign-in');
     expect(fake.calls.some((c) => c.url.pathname === '/api/auth/sign-out' && c.method === 'POST')).toBe(true);
     expect(queryClient.getQueryData(['home'])).toBeUndefined();
+  });
+
+  it('goes to sign-in when the session ends while the app is open', async () => {
+    const me = meFor('technician');
+    fake = installFakeFetch((c) => {
+      if (c.url.pathname === '/api/auth/me') return json(me);
+      if (c.url.pathname === '/api/home') return json({ error: { code: 'unauthenticated', message: 'Please sign in.' } }, { status: 401 });
+      return undefined;
+    });
+    const { router, queryClient } = renderApp('/');
+    expect(await screen.findByRole('heading', { name: 'Sign in' })).toBeInTheDocument();
+    expect(router.state.location.pathname).toBe('/sign-in');
+    expect(queryClient.getQueryData(['auth', 'me'])).toBeNull();
+  });
+
+  it('goes to sign-in when a screen’s own query finds the session ended', async () => {
+    const me = meFor('reviewer');
+    let homeCalls = 0;
+    fake = installFakeFetch((c) => {
+      if (c.url.pathname === '/api/auth/me') return json(me);
+      if (c.url.pathname === '/api/home') {
+        homeCalls++;
+        return homeCalls === 1 ? json({ role: 'reviewer', cards: [], notices: [] }) : json({ error: { code: 'unauthenticated', message: 'Please sign in.' } }, { status: 401 });
+      }
+      return undefined;
+    });
+    const { router, queryClient } = renderApp('/');
+    expect(await screen.findByText('Nothing needs you right now')).toBeInTheDocument();
+    await queryClient.refetchQueries({ queryKey: ['home'] });
+    expect(await screen.findByRole('heading', { name: 'Sign in' })).toBeInTheDocument();
+    expect(router.state.location.pathname).toBe('/sign-in');
   });
 
   it('shows a not-found page for an unknown path, inside the shell', async () => {

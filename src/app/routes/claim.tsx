@@ -18,7 +18,7 @@ import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge'
 import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
 import { ClaimComments, ClaimTimeline } from '@/features/claims/components/claim-timeline';
 import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
-import { requireSession } from '../require-session';
+import { loadOrSignIn, requireSession } from '../require-session';
 
 export const claimLoader =
   (queryClient: QueryClient) =>
@@ -27,7 +27,7 @@ export const claimLoader =
     const id = params.id ?? '';
     // The valuation is computed on the server and may take longer: it loads beside the page.
     void queryClient.prefetchQuery(claimQueries.valuation(id));
-    await queryClient.ensureQueryData(claimQueries.detail(id));
+    await loadOrSignIn(queryClient, request, () => queryClient.ensureQueryData(claimQueries.detail(id)), { rethrow: true });
     return null;
   };
 

@@ -9,10 +9,10 @@ import { Card } from '@/components/ui/card';
 import { EmptyState } from '@/components/ui/empty-state';
 import { paths } from '@/config/paths';
 import { useAppAbility } from '@/lib/ability';
-import { errorMessage, isApiError } from '@/lib/api-client';
+import { errorMessage } from '@/lib/api-client';
 import { plural } from '@/lib/format';
 import { useSession } from '@/features/auth/api/get-me';
-import { requireSession } from '../require-session';
+import { loadOrSignIn, requireSession } from '../require-session';
 import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaims } from '@/features/claims/api/get-claims';
 import { ClaimFilterBar, type AgencyOption } from '@/features/claims/components/claim-filter-bar';
@@ -25,12 +25,8 @@ export const claimsLoader =
   async ({ request }: LoaderFunctionArgs) => {
     await requireSession(queryClient, request);
     const filters = parseClaimFilters(new URL(request.url).searchParams);
-    try {
-      await queryClient.ensureQueryData(claimQueries.list(filters));
-    } catch (e) {
-      // A signed-out session is handled by the shell; other errors are shown beside the filters.
-      if (isApiError(e, 401)) throw e;
-    }
+    // Errors other than a lost session are shown beside the filters.
+    await loadOrSignIn(queryClient, request, () => queryClient.ensureQueryData(claimQueries.list(filters)));
     return null;
   };
 

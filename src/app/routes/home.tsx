@@ -5,20 +5,16 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { Skeleton } from '@/components/ui/skeleton';
-import { errorMessage, isApiError } from '@/lib/api-client';
+import { errorMessage } from '@/lib/api-client';
 import { useSession } from '@/features/auth/api/get-me';
-import { requireSession } from '../require-session';
+import { loadOrSignIn, requireSession } from '../require-session';
 import { homeQueries, useHome } from '@/features/home/api/get-home';
 import { HomeCard } from '@/features/home/components/home-card';
 import { HomeNotices } from '@/features/home/components/home-notices';
 
 export const homeLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
   await requireSession(queryClient, request);
-  try {
-    await queryClient.ensureQueryData(homeQueries.home());
-  } catch (e) {
-    if (isApiError(e, 401)) throw e;
-  }
+  await loadOrSignIn(queryClient, request, () => queryClient.ensureQueryData(homeQueries.home()));
   return null;
 };
 

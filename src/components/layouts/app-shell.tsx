@@ -30,7 +30,7 @@ export const navItems: NavItem[] = [
     label: 'Review queue',
     to: paths.reviewQueue,
     allowed: (a) => a.can('start_review', 'Claim'),
-    isActive: (p, s) => p === paths.claims && s.get('state') === 'submitted',
+    isActive: (p, s) => p.startsWith(paths.reviewQueue) || (p === paths.claims && s.get('state') === 'submitted'),
   },
   { key: 'payment-runs', label: 'Payment runs', to: paths.paymentRuns, allowed: (a) => a.can('read', 'PaymentRun'), isActive: (p) => p.startsWith(paths.paymentRuns) },
   // Every user may read their own record; managing users is what invite marks.
