@@ -1,12 +1,14 @@
 // Flat config: ESLint's recommended rules and typescript-eslint's recommended set (no type
 // information, so a lint of the whole tree stays fast), with browser globals for the client
-// and node globals for the server, tests and config files.
+// and node globals for the server, tests and config files; React's hook rules for the client.
+// Files named *.scratch.ts are personal experiments, never linted.
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import globals from 'globals';
+import reactHooks from 'eslint-plugin-react-hooks';
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'node_modules/**', 'drizzle/**', 'data/**', 'test-results/**', 'playwright-report/**', 'coverage/**'] },
+  { ignores: ['dist/**', 'node_modules/**', 'drizzle/**', 'data/**', 'test-results/**', 'playwright-report/**', 'coverage/**', '**/*.scratch.ts'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {
@@ -27,7 +29,12 @@ export default tseslint.config(
   },
   {
     files: ['src/**/*.{ts,tsx}'],
+    plugins: { 'react-hooks': reactHooks },
     languageOptions: { globals: { ...globals.browser } },
+    rules: {
+      'react-hooks/rules-of-hooks': 'error',
+      'react-hooks/exhaustive-deps': 'warn',
+    },
   },
   {
     files: ['server/**/*.ts', 'shared/**/*.ts', 'tests/**/*.{ts,tsx}', '*.{js,ts}', '.ci/**'],

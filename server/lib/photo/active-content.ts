@@ -6,7 +6,7 @@
  */
 
 const MARKUP = /<script|<html|<!doctype\s+html|<svg[\s>/]|<iframe|<body[\s>]|<object[\s>]|<embed[\s>]|<meta[\s>]|javascript:/i;
-const PDF_ACTIVE = /\/JavaScript\b|\/JS[\s(<[\/]|\/Launch\b|\/EmbeddedFile\b|\/XFA\b/;
+const PDF_ACTIVE = /\/JavaScript\b|\/JS[\s(<[/]|\/Launch\b|\/EmbeddedFile\b|\/XFA\b/;
 const ZIP_LOCAL = Buffer.from([0x50, 0x4b, 0x03, 0x04]);
 
 export interface ActiveContentFinding {

@@ -24,8 +24,8 @@ export interface BenchDataset {
   close(): void;
 }
 
-const STATES = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
-const STATE_WEIGHTS: readonly (readonly [(typeof STATES)[number], number])[] = [
+type BenchState = 'draft' | 'submitted' | 'in_review' | 'returned' | 'approved' | 'denied' | 'paid' | 'withdrawn';
+const STATE_WEIGHTS: readonly (readonly [BenchState, number])[] = [
   ['draft', 8],
   ['submitted', 14],
   ['in_review', 10],
