@@ -36,6 +36,9 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
                   lazy: () =>
                     import('./routes/claim').then((m) => ({ loader: m.claimLoader(queryClient), Component: m.ClaimRoute, ErrorBoundary: m.ClaimErrorBoundary })),
                 },
+                { path: 'payment-runs', lazy: () => import('./routes/payment-runs').then((m) => ({ loader: m.paymentRunsLoader(queryClient), Component: m.PaymentRunsRoute })) },
+                { path: 'payment-runs/ready', lazy: () => import('./routes/payment-runs-ready').then((m) => ({ loader: m.readyToPayLoader(queryClient), Component: m.ReadyToPayRoute })) },
+                { path: 'payment-runs/:id', lazy: () => import('./routes/payment-runs-detail').then((m) => ({ loader: m.paymentRunLoader(queryClient), Component: m.PaymentRunRoute })) },
                 { path: '*', Component: NotFoundRoute },
               ],
             },

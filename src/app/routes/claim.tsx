@@ -18,6 +18,7 @@ import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge'
 import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
 import { ClaimComments, ClaimTimeline } from '@/features/claims/components/claim-timeline';
 import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
+import { PartReturnsPanel } from '@/features/part-returns/components/part-returns-panel';
 import { loadOrSignIn, requireSession } from '../require-session';
 
 export const claimLoader =
@@ -114,6 +115,7 @@ export function ClaimRoute() {
         <div className="space-y-5">
           <ClaimStory claim={c} />
           <ClaimLines claim={c} valuation={valuation.data} />
+          <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />
           <ValuationSection claimId={c.id} />
           <ClaimReadings claim={c} />
           <ClaimAttachments claim={c} />
