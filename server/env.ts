@@ -9,7 +9,8 @@ export const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().min(1).default('127.0.0.1'),
-  PUBLIC_URL: z.url().default('http://localhost:3000'),
+  /** Defaults to http://localhost:PORT. */
+  PUBLIC_URL: z.url().optional(),
   DATABASE_PATH: z.string().min(1).default('./data/fieldproof.sqlite'),
   STORAGE_DIR: z.string().min(1).default('./data/files'),
   SESSION_SECRET: z.string().min(32, 'SESSION_SECRET must be at least 32 characters').default('fieldproof-local-session-secret-change-me-0001'),
@@ -32,9 +33,9 @@ export const envSchema = z.object({
   UPLOAD_MAX_FILES_PER_CLAIM: z.coerce.number().int().min(1).default(40),
   UPLOAD_MAX_BYTES_PER_CLAIM: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
   UPLOAD_AGENCY_QUOTA_BYTES: z.coerce.number().int().min(1).default(10 * 1024 * 1024 * 1024),
-});
+}).transform((e) => ({ ...e, PUBLIC_URL: e.PUBLIC_URL ?? `http://localhost:${e.PORT}` }));
 
-export type Env = z.infer<typeof envSchema>;
+export type Env = z.output<typeof envSchema>;
 
 export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = envSchema.safeParse(source);
