@@ -12,6 +12,8 @@ export const paths = {
   paymentRuns: '/payment-runs',
   users: '/users',
   catalogue: '/catalogue',
+  agencies: '/agencies',
+  acceptInvitation: '/accept-invitation',
   mailbox: '/dev/mailbox',
 } as const;
 

@@ -36,6 +36,7 @@ export const navItems: NavItem[] = [
   // Every user may read their own record; managing users is what invite marks.
   { key: 'users', label: 'Users', to: paths.users, allowed: (a) => a.can('invite', 'User'), isActive: (p) => p.startsWith(paths.users) },
   { key: 'catalogue', label: 'Catalogue', to: paths.catalogue, allowed: (a) => a.can('manage', 'Catalog'), isActive: (p) => p.startsWith(paths.catalogue) },
+  { key: 'agencies', label: 'Agencies', to: paths.agencies, allowed: (a) => a.can('create', 'Agency'), isActive: (p) => p.startsWith(paths.agencies) },
 ];
 
 export interface AppShellProps {
