@@ -22,6 +22,7 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
         { path: '/forgot-password', lazy: () => import('./routes/forgot-password').then((m) => ({ Component: m.ForgotPasswordRoute })) },
         { path: '/reset-password', lazy: () => import('./routes/reset-password').then((m) => ({ Component: m.ResetPasswordRoute })) },
         { path: '/dev/mailbox', lazy: () => import('./routes/mailbox').then((m) => ({ Component: m.MailboxRoute })) },
+        { path: '/accept-invitation', lazy: () => import('./routes/accept-invitation').then((m) => ({ Component: m.AcceptInvitationRoute })) },
         {
           id: 'app',
           lazy: () => import('./routes/app-layout').then((m) => ({ loader: m.appLayoutLoader(queryClient), Component: m.AppLayoutRoute })),
@@ -39,6 +40,9 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: 'payment-runs', lazy: () => import('./routes/payment-runs').then((m) => ({ loader: m.paymentRunsLoader(queryClient), Component: m.PaymentRunsRoute })) },
                 { path: 'payment-runs/ready', lazy: () => import('./routes/payment-runs-ready').then((m) => ({ loader: m.readyToPayLoader(queryClient), Component: m.ReadyToPayRoute })) },
                 { path: 'payment-runs/:id', lazy: () => import('./routes/payment-runs-detail').then((m) => ({ loader: m.paymentRunLoader(queryClient), Component: m.PaymentRunRoute })) },
+                { path: 'users', lazy: () => import('./routes/agency-users').then((m) => ({ loader: m.agencyUsersLoader(queryClient), Component: m.AgencyUsersRoute })) },
+                { path: 'catalogue', lazy: () => import('./routes/catalogue').then((m) => ({ loader: m.catalogueLoader(queryClient), Component: m.CatalogueRoute })) },
+                { path: 'agencies', lazy: () => import('./routes/agencies').then((m) => ({ loader: m.agenciesLoader(queryClient), Component: m.AgenciesRoute })) },
                 { path: '*', Component: NotFoundRoute },
               ],
             },
