@@ -6,6 +6,8 @@ import { unitsRouter } from './modules/units/units.router';
 import { catalogRouter } from './modules/catalog/catalog.router';
 import { homeRouter } from './modules/home/home.router';
 import { devRouter } from './modules/dev/dev.router';
+import { attachmentsRouter } from './modules/attachments/attachments.router';
+import { readingsRouter } from './modules/readings/readings.router';
 import { agencyRouter, postalCodesRouter } from './modules/agency/agency.router';
 import { invitationsRouter } from './modules/invitations/invitations.router';
 import { adminRouter } from './modules/admin/admin.router';
@@ -20,6 +22,8 @@ import { exportsRouter } from './modules/exports/exports.router';
 export function mountApi(api: Router, deps: AppDeps): void {
   api.use('/auth', authRouter(deps, { limits: deps.authLimits }));
   api.use('/claims', claimsRouter(deps));
+  api.use(attachmentsRouter(deps));
+  api.use(readingsRouter(deps));
   api.use('/units', unitsRouter(deps));
   api.use('/catalog', catalogRouter(deps));
   api.use('/home', homeRouter(deps));
