@@ -32,6 +32,13 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
               children: [
                 { index: true, lazy: () => import('./routes/home').then((m) => ({ loader: m.homeLoader(queryClient), Component: m.HomeRoute })) },
                 { path: 'claims', lazy: () => import('./routes/claims').then((m) => ({ loader: m.claimsLoader(queryClient), Component: m.ClaimsRoute })) },
+                { path: 'claims/new', lazy: () => import('./routes/claim-new').then((m) => ({ loader: m.claimNewLoader(queryClient), Component: m.ClaimNewRoute })) },
+                {
+                  path: 'claims/:id/edit',
+                  lazy: () =>
+                    import('./routes/claim-edit').then((m) => ({ loader: m.claimEditLoader(queryClient), Component: m.ClaimEditRoute, ErrorBoundary: m.ClaimEditErrorBoundary })),
+                },
+                { path: 'review', lazy: () => import('./routes/review-queue').then((m) => ({ loader: m.reviewQueueLoader(queryClient), Component: m.ReviewQueueRoute })) },
                 {
                   path: 'claims/:id',
                   lazy: () =>

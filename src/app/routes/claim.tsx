@@ -1,13 +1,18 @@
-import { Link, isRouteErrorResponse, useParams, useRouteError, type LoaderFunctionArgs } from 'react-router';
+import { Link, isRouteErrorResponse, redirect, useParams, useRouteError, type LoaderFunctionArgs } from 'react-router';
 import type { QueryClient } from '@tanstack/react-query';
+import { subject } from '@casl/ability';
+import { abilityFromRules } from '@shared/permissions/ability';
+import { reasonLabel } from '@shared/workflow/reason-codes';
 import type { ClaimDetail } from '@shared/schemas/claim';
 import { flagLabel } from '@shared/calculations/flags';
 import { Alert } from '@/components/ui/alert';
+import { ButtonLink } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Spinner } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
+import { useAppAbility } from '@/lib/ability';
 import { errorMessage, isApiError } from '@/lib/api-client';
-import { formatCents } from '@/lib/format';
+import { formatCents, formatDateTime, plural } from '@/lib/format';
 import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaim } from '@/features/claims/api/get-claim';
 import { useClaimValuation } from '@/features/claims/api/get-claim-valuation';
@@ -16,19 +21,24 @@ import { ClaimLines } from '@/features/claims/components/claim-lines';
 import { ClaimReadings } from '@/features/claims/components/claim-readings';
 import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge';
 import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
-import { ClaimComments, ClaimTimeline } from '@/features/claims/components/claim-timeline';
+import { ClaimActionsBar } from '@/features/claims/components/claim-actions-bar';
 import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
 import { PartReturnsPanel } from '@/features/part-returns/components/part-returns-panel';
+import { AdjustmentsPanel } from '@/features/review/components/adjustments-panel';
+import { ClaimActivity } from '@/features/comments/components/claim-activity';
 import { loadOrSignIn, requireSession } from '../require-session';
 
 export const claimLoader =
   (queryClient: QueryClient) =>
   async ({ params, request }: LoaderFunctionArgs) => {
-    await requireSession(queryClient, request);
+    const me = await requireSession(queryClient, request);
     const id = params.id ?? '';
     // The valuation is computed on the server and may take longer: it loads beside the page.
     void queryClient.prefetchQuery(claimQueries.valuation(id));
     await loadOrSignIn(queryClient, request, () => queryClient.ensureQueryData(claimQueries.detail(id)), { rethrow: true });
+    // A draft is worked on in its editor: whoever may edit it goes straight there.
+    const claim = queryClient.getQueryData<ClaimDetail>(claimQueries.detail(id).queryKey);
+    if (claim?.state === 'draft' && abilityFromRules(me.rules).can('update', subject('Claim', { ...claim }))) throw redirect(paths.claimEdit(id));
     return null;
   };
 
@@ -76,6 +86,41 @@ function ClaimHeading({ claim }: { claim: ClaimDetail }) {
   );
 }
 
+/** Where the claim stands for the people who act on it next: the reviewer's reason, the approval, who reviews it. */
+function ClaimStatusNote({ claim }: { claim: ClaimDetail }) {
+  const lastOf = (type: string) => [...claim.events].filter((e) => e.type === type).sort((a, b) => b.at.localeCompare(a.at))[0];
+  if (claim.state === 'returned') {
+    const r = lastOf('return');
+    return (
+      <Alert tone="warning" title={`Returned to the agency${r?.reason ? `: ${reasonLabel(r.reason)}` : ''}`}>
+        {r?.comment && <p className="whitespace-pre-line">{r.comment}</p>}
+        <p className="mt-1 text-xs">
+          {r ? `${r.actorName ?? 'Reviewer'} · ${formatDateTime(r.at)} · ` : ''}
+          {claim.resubmissionCount > 0 ? `resubmitted ${plural(claim.resubmissionCount, 'time')} so far` : 'not resubmitted yet'}
+        </p>
+      </Alert>
+    );
+  }
+  if (claim.state === 'approved' || claim.state === 'paid') {
+    return (
+      <Alert tone="success" title={`Approved: ${formatCents(claim.approvedTotalCents, claim.currency)}`}>
+        {claim.state === 'paid' ? `Paid ${formatDateTime(claim.paidAt)}.` : `Decided ${formatDateTime(claim.decidedAt)}${claim.reviewerName ? ` by ${claim.reviewerName}` : ''}; it is paid in the next payment run.`}
+      </Alert>
+    );
+  }
+  if (claim.state === 'denied') {
+    const d = lastOf('deny');
+    return (
+      <Alert tone="error" title={`Denied${d?.reason ? `: ${reasonLabel(d.reason)}` : ''}`}>
+        {d?.comment && <p className="whitespace-pre-line">{d.comment}</p>}
+      </Alert>
+    );
+  }
+  if (claim.state === 'in_review') return <p className="text-sm text-ink-700">In review{claim.reviewerName ? ` with ${claim.reviewerName}` : ''}.</p>;
+  if (claim.state === 'submitted') return <p className="text-sm text-ink-700">Submitted{claim.resubmissionCount > 0 ? ` again (resubmission ${claim.resubmissionCount})` : ''}; waiting for a reviewer to start.</p>;
+  return null;
+}
+
 function ValuationSection({ claimId }: { claimId: string }) {
   const valuation = useClaimValuation(claimId);
   if (valuation.data) return <ValuationBreakdown valuation={valuation.data} />;
@@ -100,10 +145,13 @@ export function ClaimRoute() {
   const { id = '' } = useParams();
   const claim = useClaim(id);
   const valuation = useClaimValuation(id);
+  const ability = useAppAbility();
   if (!claim.data) {
     return claim.isError ? <ClaimError error={claim.error} /> : <Spinner label="Loading the claim…" />;
   }
   const c = claim.data;
+  const may = (action: 'update' | 'adjust' | 'comment') => ability.can(action, subject('Claim', { ...c }));
+  const editable = (c.state === 'draft' || c.state === 'returned') && may('update');
   return (
     <article className="space-y-5" aria-labelledby="claim-title">
       <title>{`${c.number} · Fieldproof`}</title>
@@ -111,8 +159,18 @@ export function ClaimRoute() {
       <div id="claim-title">
         <ClaimHeading claim={c} />
       </div>
+      <ClaimStatusNote claim={c} />
+      <div className="flex flex-wrap items-start gap-2">
+        {editable && (
+          <ButtonLink to={paths.claimEdit(c.id)} variant={c.allowedActions.includes('submit') ? 'secondary' : 'primary'}>
+            {c.state === 'returned' ? 'Fix and resubmit' : 'Continue editing'}
+          </ButtonLink>
+        )}
+        <ClaimActionsBar claim={c} approveSummary={valuation.data ? `Approving ${formatCents(valuation.data.totals.approved.totalCents, c.currency)} in all.` : undefined} />
+      </div>
       <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-5">
+          {c.state === 'in_review' && may('adjust') && <AdjustmentsPanel claim={c} valuation={valuation.data} />}
           <ClaimStory claim={c} />
           <ClaimLines claim={c} valuation={valuation.data} />
           <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />
@@ -124,8 +182,7 @@ export function ClaimRoute() {
           <ClaimUnitCard claim={c} />
           <ClaimSiteCard claim={c} />
           <ClaimDatesCard claim={c} />
-          <ClaimTimeline claim={c} />
-          <ClaimComments claim={c} />
+          <ClaimActivity claim={c} canComment={may('comment')} />
         </div>
       </div>
     </article>

@@ -17,6 +17,7 @@ import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaims } from '@/features/claims/api/get-claims';
 import { ClaimFilterBar, type AgencyOption } from '@/features/claims/components/claim-filter-bar';
 import { ClaimsPager } from '@/features/claims/components/claims-pager';
+import { NewClaimButton } from '@/features/claims/components/new-claim-button';
 import { ClaimsTable, ClaimsTableSkeleton } from '@/features/claims/components/claims-table';
 import { CLAIMS_PAGE_SIZE, filtersToParams, hasNarrowingFilters, parseClaimFilters, type ClaimFilters } from '@/features/claims/filters';
 
@@ -78,7 +79,10 @@ export function ClaimsRoute() {
       <title>{`${title} · Fieldproof`}</title>
       <div className="flex flex-wrap items-baseline justify-between gap-2">
         <h1 className="text-2xl font-semibold text-ink-900">{title}</h1>
-        {page && <p className="text-sm text-ink-600">{plural(page.total, 'claim')}</p>}
+        <div className="flex items-center gap-4">
+          {page && <p className="text-sm text-ink-600">{plural(page.total, 'claim')}</p>}
+          <NewClaimButton />
+        </div>
       </div>
       {isReviewQueue && <p className="text-sm text-ink-700">Submitted claims waiting for a reviewer to start. Open one to review it.</p>}
 

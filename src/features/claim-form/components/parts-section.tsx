@@ -1,0 +1,112 @@
+import { useId, useState } from 'react';
+import { useFieldArray, useWatch, type UseFormReturn } from 'react-hook-form';
+import type { CatalogModel, CatalogPart } from '@shared/schemas/catalog';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { Input } from '@/components/ui/input';
+import { formatCents } from '@/lib/format';
+import { fieldDomId, type ClaimFormValues } from '../form-model';
+import { FormField, GroupError } from './form-field';
+import { FormSection } from './form-section';
+import type { ReturnInfo } from './reviewer-note';
+
+function matches(p: CatalogPart, q: string): boolean {
+  const words = q.toLowerCase().split(/\s+/).filter(Boolean);
+  const text = `${p.partNumber} ${p.description}`.toLowerCase();
+  return words.every((w) => text.includes(w));
+}
+
+/** Search the catalogue by part number or words of the description; a result adds a line. */
+function PartPicker({ parts, currency, onPick }: { parts: readonly CatalogPart[]; currency: string; onPick: (p: CatalogPart) => void }) {
+  const [q, setQ] = useState('');
+  const listId = useId();
+  const results = q.trim() === '' ? [] : parts.filter((p) => matches(p, q)).slice(0, 8);
+  return (
+    <div className="space-y-2">
+      <FormField id={fieldDomId('partLines')} label="Add a part" hint="Type a part number or words of its name.">
+        {(p) => <Input {...p} type="search" value={q} onChange={(e) => setQ(e.target.value)} aria-controls={listId} autoComplete="off" />}
+      </FormField>
+      <ul id={listId} aria-label="Matching parts" className="divide-y divide-ink-100 rounded-md border border-ink-100 empty:hidden">
+        {results.map((p) => (
+          <li key={p.id}>
+            <button
+              type="button"
+              className="flex w-full flex-wrap items-center justify-between gap-2 px-3 py-2.5 text-left text-sm hover:bg-paper focus:bg-paper"
+              onClick={() => {
+                onPick(p);
+                setQ('');
+              }}
+            >
+              <span>
+                <span className="font-mono font-medium">{p.partNumber}</span> {p.description}
+              </span>
+              <span className="flex items-center gap-2">
+                {p.returnRequired && <Badge tone="orange">Return required</Badge>}
+                <span className="tabular-nums text-ink-700">{formatCents(p.listPriceCents, currency)}</span>
+                <span className="sr-only">: add</span>
+              </span>
+            </button>
+          </li>
+        ))}
+      </ul>
+      {q.trim() !== '' && results.length === 0 && <p className="text-sm text-ink-600">No part of this family matches “{q.trim()}”.</p>}
+    </div>
+  );
+}
+
+export function PartsSection({
+  form,
+  parts,
+  componentTerms,
+  currency,
+  note,
+}: {
+  form: UseFormReturn<ClaimFormValues>;
+  parts: readonly CatalogPart[];
+  componentTerms: CatalogModel['componentTerms'];
+  currency: string;
+  note?: ReturnInfo | null;
+}) {
+  const { control, register, formState } = form;
+  const { fields, append, remove } = useFieldArray({ control, name: 'partLines' });
+  const lines = useWatch({ control, name: 'partLines' }) ?? [];
+  const byId = new Map(parts.map((p) => [p.id, p]));
+  const longer = new Map(componentTerms.map((c) => [c.partId, c]));
+  const errors = formState.errors.partLines;
+  return (
+    <FormSection id="section-parts" title="Parts" description="Parts you replaced, from the catalogue. Parts marked “return required” must be sent back before the claim is paid." note={note}>
+      {fields.length > 0 && (
+        <ol className="divide-y divide-ink-100 rounded-md border border-ink-100">
+          {fields.map((field, i) => {
+            const part = byId.get(lines[i]?.partId ?? '');
+            const term = part ? longer.get(part.id) : undefined;
+            const e = errors?.[i];
+            return (
+              <li key={field.id} className="grid gap-3 p-3 sm:grid-cols-[minmax(0,1fr)_7rem_auto] sm:items-end" aria-label={`Part line ${i + 1}`}>
+                <div className="text-sm">
+                  <p>
+                    <span className="font-mono font-medium">{part?.partNumber ?? 'Unknown part'}</span> {part?.description}
+                  </p>
+                  <p className="mt-1 flex flex-wrap items-center gap-2 text-ink-700">
+                    {part && <span className="tabular-nums">List {formatCents(part.listPriceCents, currency)}</span>}
+                    {part?.returnRequired && <Badge tone="orange">Return required</Badge>}
+                    {term && <Badge tone="ink">{`${term.label}: ${term.partsMonths}-month parts term`}</Badge>}
+                  </p>
+                  <GroupError>{e?.partId?.message}</GroupError>
+                </div>
+                <FormField id={fieldDomId(`partLines.${i}.quantity`)} label="Quantity" error={e?.quantity?.message}>
+                  {(p) => <Input {...p} type="number" inputMode="numeric" step="1" min="1" max="99" {...register(`partLines.${i}.quantity`, { valueAsNumber: true })} />}
+                </FormField>
+                <Button variant="ghost" size="sm" onClick={() => remove(i)}>
+                  Remove
+                </Button>
+              </li>
+            );
+          })}
+        </ol>
+      )}
+      <GroupError>{errors?.message ?? errors?.root?.message}</GroupError>
+      <PartPicker parts={parts} currency={currency} onPick={(p) => append({ partId: p.id, quantity: 1 })} />
+    </FormSection>
+  );
+}
