@@ -16,6 +16,7 @@ export const FLAG_CODES = [
   'readings_out_of_tolerance',
   'photo_reused',
   'photo_outside_service_window',
+  'photo_far_from_site',
 ] as const;
 
 export type FlagCode = (typeof FLAG_CODES)[number];
@@ -80,6 +81,11 @@ export const FLAG_INFO: Record<FlagCode, FlagInfo> = {
   photo_outside_service_window: {
     label: 'Photo taken outside the service window',
     description: 'A photo’s recorded capture time falls outside the dates of the service visit.',
+    raisedBy: 'attachments',
+  },
+  photo_far_from_site: {
+    label: 'Photo taken far from the site',
+    description: 'A photo’s recorded GPS position is far from the site’s coordinates.',
     raisedBy: 'attachments',
   },
 };
