@@ -52,6 +52,7 @@ export const claims = sqliteTable(
     uniqueIndex('claims_number_uq').on(t.number),
     index('claims_agency_state_idx').on(t.agencyId, t.state, t.createdAt),
     index('claims_state_submitted_idx').on(t.state, t.submittedAt),
+    index('claims_state_created_idx').on(t.state, t.createdAt),
     index('claims_technician_idx').on(t.technicianId, t.createdAt),
     index('claims_unit_idx').on(t.unitId, t.repairDate),
     index('claims_created_idx').on(t.createdAt),

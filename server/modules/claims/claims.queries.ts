@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, gte, lte, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, gte, isNotNull, isNull, lt, lte, or, sql, type Column, type SQL } from 'drizzle-orm';
 import { alias, QueryBuilder, SQLiteSyncDialect } from 'drizzle-orm/sqlite-core';
 import { subject } from '@casl/ability';
 import type { Statement } from 'better-sqlite3';
@@ -52,17 +52,22 @@ export function findReadableClaim(db: Db, ability: AppAbility, id: string): Clai
 // ---- list ----------------------------------------------------------------------------------
 
 type SortKey = ClaimListQuery['sort'];
-type SortValue = string | number;
+type SortValue = string | number | null;
 
-/** Nullable sort columns sort as '' so keyset comparisons never meet NULL. */
-const sortExpr: Record<SortKey, SQL> = {
-  createdAt: sql`${claims.createdAt}`,
-  submittedAt: sql`coalesce(${claims.submittedAt}, '')`,
-  repairDate: sql`coalesce(${claims.repairDate}, '')`,
-  number: sql`${claims.number}`,
-  claimedTotalCents: sql`${claims.claimedTotalCents}`,
-  state: sql`${claims.state}`,
+/**
+ * The sort columns, sorted bare so their indexes give the order. SQLite puts NULL first
+ * ascending and last descending; the keyset condition below follows that.
+ */
+const sortColumn: Record<SortKey, Column> = {
+  createdAt: claims.createdAt,
+  submittedAt: claims.submittedAt,
+  repairDate: claims.repairDate,
+  number: claims.number,
+  claimedTotalCents: claims.claimedTotalCents,
+  state: claims.state,
 };
+const sortExpr = Object.fromEntries(Object.entries(sortColumn).map(([k, c]) => [k, sql`${c}`])) as Record<SortKey, SQL>;
+const nullableSort = new Set<SortKey>(['submittedAt', 'repairDate']);
 const numericSort = new Set<SortKey>(['claimedTotalCents']);
 
 interface Cursor {
@@ -89,7 +94,9 @@ export function decodeCursor(raw: string, sort: SortKey, dir: 'asc' | 'desc'): C
   if (!Array.isArray(parsed) || parsed.length !== 4) throw bad();
   const [s, d, value, id] = parsed as unknown[];
   if (s !== sort || d !== dir || typeof id !== 'string' || id.length === 0 || id.length > 64) throw bad();
-  if (numericSort.has(sort) ? typeof value !== 'number' || !Number.isSafeInteger(value) : typeof value !== 'string' || value.length > 64) throw bad();
+  const okValue =
+    value === null ? nullableSort.has(sort) : numericSort.has(sort) ? typeof value === 'number' && Number.isSafeInteger(value) : typeof value === 'string' && value.length <= 64;
+  if (!okValue) throw bad();
   return { sort, dir, value: value as SortValue, id };
 }
 
@@ -129,9 +136,31 @@ function listFilters(q: ClaimListQuery): SQL[] {
   if (q.to) where.push(lte(claims.repairDate, q.to));
   if (q.q) {
     const like = `%${escapeLike(q.q)}%`;
-    where.push(sql`(${claims.number} like ${like} escape '\\' or ${units.serial} like ${like} escape '\\')`);
+    where.push(sql`(${claims.number} like ${like} escape '\\' or ${claims.unitId} in (select ${units.id} from ${units} where ${units.serial} like ${like} escape '\\'))`);
   }
   return where;
+}
+
+/** Rows after the cursor (value, id) in the order (column dir, id dir), NULLs first ascending, last descending. */
+function afterCursor(col: Column, v: SortValue, id: string, dir: 'asc' | 'desc'): SQL {
+  if (dir === 'desc') {
+    if (v === null) return and(isNull(col), lt(claims.id, id)) as SQL;
+    return or(lt(col, v), and(eq(col, v), lt(claims.id, id)), isNull(col)) as SQL;
+  }
+  if (v === null) return or(and(isNull(col), gt(claims.id, id)), isNotNull(col)) as SQL;
+  return or(gt(col, v), and(eq(col, v), gt(claims.id, id))) as SQL;
+}
+
+/** True when the user's read rules for claims name no agency, technician or claim id. */
+function spansAgencies(ability: AppAbility): boolean {
+  const rules = ability.rulesFor('read', 'Claim');
+  return (
+    rules.length > 0 &&
+    rules.every((r) => {
+      const cond = (r.conditions ?? {}) as Record<string, unknown>;
+      return !r.inverted && !('agencyId' in cond) && !('technicianId' in cond) && !('id' in cond);
+    })
+  );
 }
 
 export interface ClaimListPage {
@@ -148,24 +177,24 @@ export interface ClaimListPage {
 export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): ClaimListPage {
   const scope = claimScope(ability);
   const filters = listFilters(q);
-  const key = sortExpr[q.sort];
-  const order = q.dir === 'asc' ? asc : desc;
-  const where = [scope, ...filters];
+  // A scope that spans every agency (manufacturer roles) keeps most rows: say so to the planner,
+  // so it walks the sort column's index instead of gathering the scope's rows and sorting them.
+  const broad = !q.state && !q.agency && spansAgencies(ability);
+  const where = [broad ? sql`likelihood((${scope}), 0.9)` : scope, ...filters];
   if (q.cursor) {
     const c = decodeCursor(q.cursor, q.sort, q.dir);
-    const v = c.value;
-    where.push(
-      q.dir === 'asc'
-        ? (or(sql`${key} > ${v}`, and(sql`${key} = ${v}`, sql`${claims.id} > ${c.id}`)) as SQL)
-        : (or(sql`${key} < ${v}`, and(sql`${key} = ${v}`, sql`${claims.id} < ${c.id}`)) as SQL),
-    );
+    where.push(afterCursor(sortColumn[q.sort], c.value, c.id, q.dir));
   }
   const w = dialect.sqlToQuery(and(...where) as SQL);
-  const pageSql = `${listSelectSql(q.sort)} where ${w.sql} order by ${sortSql(q.sort)} ${q.dir}, "claims"."id" ${q.dir} limit ?`;
+  const order = `${sortSql(q.sort)} ${q.dir}, "claims"."id" ${q.dir}`;
+  // Two steps in one statement: the page's ids from the claims table alone (index order, early
+  // stop), then the names joined for those rows only.
+  const pageSql = `${listSelectSql(q.sort)} where "claims"."id" in (select "claims"."id" from "claims" where ${w.sql} order by ${order} limit ?) order by ${order}`;
   const rows = cachedRaw(db, pageSql).all(...w.params, q.limit + 1) as unknown[][];
 
-  const c = dialect.sqlToQuery(and(scope, ...filters) as SQL);
-  const countSql = `select count(*) from "claims"${q.q ? ' left join "units" on "units"."id" = "claims"."unit_id"' : ''} where ${c.sql}`;
+  // the count walks the scope's covering index, unless a text search reads the rows anyway
+  const c = dialect.sqlToQuery(and(broad && q.q ? where[0] : scope, ...filters) as SQL);
+  const countSql = `select count(*) from "claims" where ${c.sql}`;
   const countRow = cachedRaw(db, countSql).get(...c.params) as [number] | undefined;
 
   const more = rows.length > q.limit;
@@ -244,12 +273,12 @@ function toListItem(row: unknown[]): ClaimListItem {
 export function listClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefined, opts: { order: 'oldest_submitted' | 'oldest_created' | 'newest_repair' | 'oldest_decided'; limit: number }): ClaimListItem[] {
   const orderBy =
     opts.order === 'oldest_submitted'
-      ? [asc(sql`coalesce(${claims.submittedAt}, ${claims.createdAt})`), asc(claims.id)]
+      ? [asc(claims.submittedAt), asc(claims.id)]
       : opts.order === 'oldest_created'
         ? [asc(claims.createdAt), asc(claims.id)]
         : opts.order === 'oldest_decided'
-          ? [asc(sql`coalesce(${claims.decidedAt}, ${claims.updatedAt})`), asc(claims.id)]
-          : [desc(sql`coalesce(${claims.repairDate}, '')`), desc(claims.id)];
+          ? [asc(claims.decidedAt), asc(claims.id)]
+          : [desc(claims.repairDate), desc(claims.id)];
   return db
     .select(listItemColumns)
     .from(claims)

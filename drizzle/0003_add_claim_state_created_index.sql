@@ -1,0 +1,1 @@
+CREATE INDEX `claims_state_created_idx` ON `claims` (`state`,`created_at`);
