@@ -25,7 +25,7 @@ export function agencyAdminAddresses(t: Db, agencyId: string): string[] {
  */
 export function remittanceCsv(t: Db, runId: string): { csv: string; rows: PaidClaimRow[] } {
   const rows = paidClaimsQuery(t, sql`1 = 1`, { runId }).values() as PaidClaimRow[];
-  return { csv: stringify(rows.map(paidClaimRecord), csvOptions), rows };
+  return { csv: stringify(rows.map((r) => paidClaimRecord([...r] as PaidClaimRow)), csvOptions), rows };
 }
 
 export function queueRemittanceMail(t: Db, clock: Clock, m: { run: PaymentRun & { paymentDate: string; reference: string }; agencyName: string; publicUrl: string }): { to: string[]; filename: string } {

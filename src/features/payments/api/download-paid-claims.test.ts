@@ -32,7 +32,7 @@ describe('the record counter', () => {
 describe('downloadPaidClaims', () => {
   it('reads the stream chunk by chunk, reporting bytes and rows, and returns the whole file', async () => {
     const chunks = ['claim_number,total_approved\r\nFP-1,1', '0.00\r\nFP-2,"2', '0.00"\r', '\nFP-3,30.00\r\n'];
-    const fetchMock = vi.fn(async () => streamed(chunks, { 'Content-Type': 'text/csv; charset=utf-8', 'Content-Disposition': 'attachment; filename="paid-claims-2026-06-15.csv"', 'X-Total-Rows': '3' }));
+    const fetchMock = vi.fn(async (_url: string) => streamed(chunks, { 'Content-Type': 'text/csv; charset=utf-8', 'Content-Disposition': 'attachment; filename="paid-claims-2026-06-15.csv"', 'X-Total-Rows': '3' }));
     vi.stubGlobal('fetch', fetchMock);
     const seen: Array<{ bytes: number; rows: number; totalRows: number | null }> = [];
     const result = await downloadPaidClaims({ from: '2026-06-01', agency: '' }, { onProgress: (p) => seen.push({ ...p }) });
