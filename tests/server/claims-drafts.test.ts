@@ -116,6 +116,7 @@ describe('POST /api/claims', () => {
         },
         'readings.1.key',
       ],
+      [{ readings: [{ key: 'cooking_height', phase: 'after', value: 36, unit: 'F' }] }, 'readings.0.unit'],
       [{ laborLines: [{ repairCodeId: 'x', hoursWorked: -1 }] }, 'laborLines.0.hoursWorked'],
       [{ failureDate: '2026-02-30' }, 'failureDate'],
     ];

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, gt, gte, isNotNull, isNull, lt, lte, or, sql, type Column, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, gte, inArray, isNotNull, isNull, lt, lte, or, sql, type Column, type SQL } from 'drizzle-orm';
 import { alias, QueryBuilder, SQLiteSyncDialect } from 'drizzle-orm/sqlite-core';
 import { subject } from '@casl/ability';
 import type { Statement } from 'better-sqlite3';
@@ -105,6 +105,7 @@ function escapeLike(s: string): string {
 }
 
 const technician = alias(users, 'technician');
+const listReviewer = alias(users, 'list_reviewer');
 
 export const listItemColumns = {
   id: claims.id,
@@ -125,6 +126,7 @@ export const listItemColumns = {
   approvedTotalCents: claims.approvedTotalCents,
   currency: claims.currency,
   flags: claims.flags,
+  reviewerName: listReviewer.name,
 };
 
 /** Filters of the list (never the scope): ANDed with the scope, so they only narrow. */
@@ -134,6 +136,11 @@ function listFilters(q: ClaimListQuery): SQL[] {
   if (q.agency) where.push(eq(claims.agencyId, q.agency));
   if (q.from) where.push(gte(claims.repairDate, q.from));
   if (q.to) where.push(lte(claims.repairDate, q.to));
+  if (q.states) where.push(inArray(claims.state, q.states));
+  if (q.flag) where.push(sql`exists (select 1 from json_each(${claims.flags}) where json_each.value = ${q.flag})`);
+  if (q.model) where.push(sql`${claims.unitId} in (select ${units.id} from ${units} where ${units.modelId} = ${q.model})`);
+  if (q.minCents !== undefined) where.push(gte(claims.claimedTotalCents, q.minCents));
+  if (q.maxCents !== undefined) where.push(lte(claims.claimedTotalCents, q.maxCents));
   if (q.q) {
     const like = `%${escapeLike(q.q)}%`;
     where.push(sql`(${claims.number} like ${like} escape '\\' or ${claims.unitId} in (select ${units.id} from ${units} where ${units.serial} like ${like} escape '\\'))`);
@@ -179,7 +186,7 @@ export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): Clai
   const filters = listFilters(q);
   // A scope that spans every agency (manufacturer roles) keeps most rows: say so to the planner,
   // so it walks the sort column's index instead of gathering the scope's rows and sorting them.
-  const broad = !q.state && !q.agency && spansAgencies(ability);
+  const broad = !q.state && !q.states && !q.agency && spansAgencies(ability);
   const where = [broad ? sql`likelihood((${scope}), 0.9)` : scope, ...filters];
   if (q.cursor) {
     const c = decodeCursor(q.cursor, q.sort, q.dir);
@@ -224,6 +231,7 @@ function listSelectSql(sort: SortKey): string {
       .leftJoin(units, eq(units.id, claims.unitId))
       .leftJoin(models, eq(models.id, units.modelId))
       .leftJoin(sites, eq(sites.id, claims.siteId))
+      .leftJoin(listReviewer, eq(listReviewer.id, claims.reviewerId))
       .toSQL().sql;
     selectSqlBySort.set(sort, text);
   }
@@ -287,6 +295,7 @@ export function listClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefi
     .leftJoin(units, eq(units.id, claims.unitId))
     .leftJoin(models, eq(models.id, units.modelId))
     .leftJoin(sites, eq(sites.id, claims.siteId))
+    .leftJoin(listReviewer, eq(listReviewer.id, claims.reviewerId))
     .where(extra ? and(claimScope(ability), extra) : claimScope(ability))
     .orderBy(...orderBy)
     .limit(opts.limit)

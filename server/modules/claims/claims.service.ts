@@ -33,6 +33,7 @@ import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError
 import type { Action, ClaimAction } from '@shared/permissions/ability';
 import type { ClaimDetail, ClaimDraftInput, ClaimListQuery, ClaimValuationBasis } from '@shared/schemas/claim';
 import { FLAG_INFO, isFlagCode } from '@shared/calculations/flags';
+import { areCompatible } from '@shared/calculations/units';
 import { actionToEvent, allowedEvents, editableStates, eventsFromState, isEditable, nextState, statesAllowing, type ClaimEvent } from '@shared/workflow/claim-machine';
 import { isReasonFor, reasonCodesFor } from '@shared/workflow/reason-codes';
 import { problemsAsFields } from '@shared/workflow/submit-validation';
@@ -162,6 +163,8 @@ export function createClaimsService(deps: AppDeps) {
       const k = `${r.key}:${r.phase}`;
       if (seen.has(k)) fields[`readings.${i}.key`] = 'This reading is entered twice for the same phase.';
       seen.add(k);
+      const spec = unit ? t.select({ unit: readingSpecs.unit, label: readingSpecs.label }).from(readingSpecs).where(and(eq(readingSpecs.modelId, unit.modelId), eq(readingSpecs.key, r.key))).get() : undefined;
+      if (spec && !areCompatible(r.unit, spec.unit)) fields[`readings.${i}.unit`] = `${spec.label} is measured in ${spec.unit}; enter it in a unit that converts to ${spec.unit}.`;
     });
     if (Object.keys(fields).length > 0) throw new ValidationError('Some fields need attention.', fields);
   }
@@ -361,7 +364,7 @@ export function createClaimsService(deps: AppDeps) {
           // the filing window counts from the first filing: value again with that date
           const filed = valueFromInputs({ ...evaluation.inputs, claim: { ...row, firstSubmittedAt: row.firstSubmittedAt ?? now } }, today()).valuation ?? v;
           set.claimedTotalCents = filed ? filed.totals.claimed.totalCents : 0;
-          const photoFlags = row.flags.filter((f) => isFlagCode(f) && FLAG_INFO[f].raisedBy === 'attachments');
+          const photoFlags = row.flags.filter((f) => (isFlagCode(f) && FLAG_INFO[f].raisedBy === 'attachments') || f.startsWith('photo_'));
           set.flags = [...new Set([...(filed ? filed.flags.map((f) => f.code) : []), ...photoFlags])];
         }
         if (type === 'START_REVIEW') set.reviewerId = user.id;

@@ -28,6 +28,7 @@ import {
 import { valueClaim, type LineAdjustment, type Valuation, type ValuationInput } from '@shared/calculations/valuation';
 import { isCalculationInputError } from '@shared/calculations/errors';
 import { KM_PER_MILE } from '@shared/calculations/travel';
+import { areCompatible } from '@shared/calculations/units';
 import { validateForSubmit, type SubmitFacts, type SubmitValidation } from '@shared/workflow/submit-validation';
 import type { ClaimFacts } from '@shared/workflow/claim-machine';
 import { allowancesOn, pricesOn } from '../admin/catalog.queries';
@@ -274,7 +275,7 @@ export function valuationInputOf(inputs: ClaimInputs, today: string): { input: V
       quantity: p.quantity,
     })),
     readings: inputs.readings
-      .filter((r) => r.spec !== null)
+      .filter((r) => r.spec !== null && areCompatible(r.unit, r.spec.unit))
       .map((r) => ({ id: r.id, value: r.value, unit: r.unit, spec: { unit: r.spec!.unit, nominal: r.spec!.nominal, tolerance: r.spec!.tolerance, phase: r.phase, label: r.spec!.label } })),
     priorRepairs: inputs.priorRepairs,
     adjustments,
