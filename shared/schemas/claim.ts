@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { ValuationInput } from '../calculations/valuation';
+import { FLAG_CODES } from '../calculations/flags';
 
 export const claimStates = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
 export type ClaimState = (typeof claimStates)[number];
@@ -75,8 +76,32 @@ export const createClaimSchema = claimDraftSchema.extend({ serial: text(60).min(
 /** Claim PATCH carries the version the user saw, so a stale edit answers 409. */
 export const updateClaimSchema = claimDraftSchema.extend({ version: z.number().int().min(1) });
 
+/** "submitted,in_review" -> ['submitted', 'in_review'] */
+const stateList = z
+  .string()
+  .max(200)
+  .transform((s, ctx) => {
+    const list = [...new Set(s.split(',').map((x) => x.trim()).filter(Boolean))];
+    const unknown = list.filter((x) => !(claimStates as readonly string[]).includes(x));
+    if (list.length === 0 || unknown.length > 0) {
+      ctx.addIssue({ code: 'custom', message: `Use claim states separated by commas: ${claimStates.join(', ')}.` });
+      return z.NEVER;
+    }
+    return list as ClaimState[];
+  });
+const cents = z.coerce.number('Give the amount in cents.').int('Give the amount in whole cents.').min(0).max(1_000_000_000);
+
 export const claimListQuerySchema = z.object({
   state: z.enum(claimStates).optional(),
+  /** Several states at once (the review queue: submitted and in review). */
+  states: stateList.optional(),
+  /** Claims carrying this flag. */
+  flag: z.enum(FLAG_CODES, 'Unknown flag.').optional(),
+  /** Claims of units of this model (model id). */
+  model: z.string().max(64).optional(),
+  /** Claimed total within [minCents, maxCents]. */
+  minCents: cents.optional(),
+  maxCents: cents.optional(),
   agency: z.string().max(64).optional(),
   q: z.string().trim().max(80).optional(),
   from: isoDate.optional(),
@@ -107,6 +132,8 @@ export interface ClaimListItem {
   approvedTotalCents: number | null;
   currency: string;
   flags: string[];
+  /** Who took the claim for review (start review), if anyone has. */
+  reviewerName?: string | null;
 }
 
 export interface ClaimDetail extends ClaimListItem {
