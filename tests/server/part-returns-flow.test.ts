@@ -116,7 +116,7 @@ describe('a claim filed, approved, its part returned and paid, all through the A
     const paid = await agents.accountant.post(`/api/payment-runs/${run.body.id}/paid`).send({ paymentDate: '2026-06-15', reference: 'ACH 555' });
     expect(paid.status).toBe(200);
     const events = t.db.select().from(claimEvents).where(eq(claimEvents.claimId, id)).all().map((e) => e.type);
-    expect(events).toEqual(expect.arrayContaining(['submit', 'start_review', 'approve', 'part_return_ship', 'part_return_receive', 'pay']));
+    expect(events).toEqual(expect.arrayContaining(['submit', 'start_review', 'approve', 'part_shipped', 'part_received', 'pay']));
     // Paid claims take no further return steps.
     expect((await ship(agents.adminA, id, returnLine.id)).status).toBe(409);
   });
@@ -133,7 +133,7 @@ describe('part-return steps', () => {
     expect(res.status).toBe(200);
     expect(res.body.lines[0]).toMatchObject({ status: 'waived', settled: true, waiveReason: 'Part was scrapped on site at the reviewer’s request.' });
     expect(await readyIds()).toContain(c.id);
-    expect(countRows(t, 'claim_events', "claim_id = ? and type = 'part_return_waive'", c.id)).toBe(1);
+    expect(countRows(t, 'claim_events', "claim_id = ? and type = 'part_return_waived'", c.id)).toBe(1);
   });
 
   it('a shipment that arrives without the part does not settle the return until the part comes or is waived', async () => {

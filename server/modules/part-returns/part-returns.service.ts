@@ -29,6 +29,8 @@ export interface Actor {
 }
 
 const sideOf: Record<PartReturnAction, 'agency' | 'manufacturer'> = { ship: 'agency', receive: 'manufacturer', waive: 'manufacturer' };
+/** The claim event each step writes (the timeline shows "Part shipped" and so on). */
+const eventType: Record<PartReturnAction, string> = { ship: 'part_shipped', receive: 'part_received', waive: 'part_return_waived' };
 
 /**
  * A return still open: awaiting, shipped, or received without the part. Every step may follow
@@ -145,7 +147,7 @@ export function createPartReturnsService(deps: AppDeps) {
           .run();
         if (bumped.changes !== 1) throw new ConflictError('Someone changed this claim since you opened it. Reload it and try again.', 'stale_version');
         t.insert(claimEvents)
-          .values({ id: newId(), claimId, actorId: user.id, organisationId: user.organisationId, type: `part_return_${action}`, fromState: 'approved', toState: 'approved', comment, at: now })
+          .values({ id: newId(), claimId, actorId: user.id, organisationId: user.organisationId, type: eventType[action], fromState: 'approved', toState: 'approved', comment, at: now })
           .run();
         writeAudit(t, clock, { actorId: user.id, organisationId: user.organisationId, action: auditAction, recordType: 'claim', recordId: claimId, outcome: 'success', ip: a.ip ?? null, detail: { lineId, from: line.returnStatus, to: set.returnStatus } });
       });

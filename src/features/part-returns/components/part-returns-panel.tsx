@@ -15,7 +15,7 @@ import { Field } from '@/components/ui/field';
 import { Input, Select, Textarea } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
 import { errorMessage, isApiError } from '@/lib/api-client';
-import { formatDate, formatDateTime } from '@/lib/format';
+import { formatDate, formatDateTime, plural } from '@/lib/format';
 import { usePartReturns, useRecordPartReturnStep } from '../api/part-returns';
 
 const statusTone: Record<string, BadgeTone> = { awaiting: 'orange', shipped: 'blue', received: 'green', waived: 'slate', not_required: 'neutral' };
@@ -191,7 +191,7 @@ export function PartReturnsPanel({ claimId, enabled }: { claimId: string; enable
       )}
       {data && data.overdueDays > 0 && !data.returnsSettled && (
         <CardBody>
-          <Alert tone="warning">Overdue by {data.overdueDays} days.</Alert>
+          <Alert tone="warning">Overdue by {plural(data.overdueDays, 'day')}.</Alert>
         </CardBody>
       )}
       {data && (
