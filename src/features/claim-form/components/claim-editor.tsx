@@ -16,6 +16,7 @@ import { useParts } from '../api/get-parts';
 import { useRepairCodes } from '../api/get-repair-codes';
 import { useValuationBasis } from '../api/get-valuation-basis';
 import { claimFormKeys } from '../api/claim-form-keys';
+import { reloadClaim } from '../api/get-claim';
 import { useAutosave } from '../hooks/use-autosave';
 import { useLiveValuation } from '../hooks/use-live-valuation';
 import { detailToValues, reasonSections, requiredReadings, submitFactsOf, todayUtc, type ClaimFormValues, type FormSection } from '../form-model';
@@ -90,10 +91,7 @@ export function ClaimEditor({ claim, renderValuation, submitClaim, onSubmitted, 
   latest.current = claim;
 
   const detailKey = claimFormKeys.claimDetail(claim.id);
-  const reload = async (): Promise<ClaimDetail | undefined> => {
-    await queryClient.refetchQueries({ queryKey: detailKey, exact: true });
-    return queryClient.getQueryData<ClaimDetail>(detailKey);
-  };
+  const reload = (): Promise<ClaimDetail | undefined> => reloadClaim(queryClient, claim.id).catch(() => undefined);
 
   const onConflict = async (e: ApiError) => {
     const fresh = await reload();
@@ -149,7 +147,7 @@ export function ClaimEditor({ claim, renderValuation, submitClaim, onSubmitted, 
     if (validation.problems.length > 0) return;
     setSubmitting(true);
     try {
-      const allSaved = await autosave.flush();
+      const allSaved = await autosave.flush({ mark: true });
       if (!allSaved) {
         setSubmitError('Some changes could not be saved. Fix the marked fields, then submit.');
         return;

@@ -68,7 +68,7 @@ export function NewClaimFlow({ onCreated }: { onCreated: (claim: ClaimDetail) =>
         {!waiting && unknown && (
           <Alert tone="warning" title="No unit with this serial number">
             <p>{errorMessage(lookup.error)}</p>
-            <p className="mt-1">Serial numbers are on the data plate, usually inside the door or on the back panel. Letters and digits count; spaces do not.</p>
+            <p className="mt-1">Serial numbers are on the data plate, usually inside the door or on the back panel. Check letters that look like digits: O and 0, I and 1, S and 5.</p>
           </Alert>
         )}
         {!waiting && lookup.isError && !unknown && <Alert tone="error">{errorMessage(lookup.error)}</Alert>}

@@ -115,6 +115,7 @@ export function ReadingsSection({
   // Specs the repair codes require come first; the others may be entered as the technician has them.
   const ordered = [...specs].sort((a, b) => Number(specPhases(b).some((p) => need.has(`${a.key}:${p}`))) - Number(specPhases(a).some((p) => need.has(`${b.key}:${p}`))));
   const e = formState.errors.readings;
+  const [openMore, setOpenMore] = useState(() => readings.some((r) => !required.some((q) => q.key === r.key)));
 
   const write = (next: Reading[]) => setValue('readings', next, { shouldDirty: true, shouldValidate: true });
 
@@ -127,63 +128,76 @@ export function ReadingsSection({
     write((getValues('readings') ?? []).map((r) => (r.key === spec.key ? { ...r, unit } : r)));
   };
 
+  const renderSpec = (spec: Spec) => {
+    const mine = readings.filter((r) => r.key === spec.key);
+    const units = unitsFor(spec.unit);
+    const unit = (mine[0]?.unit ?? (units.includes(spec.unit as ReadingUnit) ? spec.unit : units[0])) as ReadingUnit;
+    const needed = specPhases(spec).some((p) => need.has(`${spec.key}:${p}`));
+    return (
+      <li key={spec.key} className="rounded-md border border-ink-100 p-3" aria-label={spec.label}>
+        <div className="flex flex-wrap items-start justify-between gap-2">
+          <div>
+            <p className="text-sm font-medium text-ink-900">
+              {spec.label}
+              {needed && (
+                <Badge tone="brass" className="ml-2">
+                  Required for this repair
+                </Badge>
+              )}
+            </p>
+            <p className="text-xs text-ink-600">
+              Specification {num(spec.nominal)} ± {num(spec.tolerance)} {unitLabel(spec.unit as UnitCode)}
+            </p>
+          </div>
+          {units.length > 1 && (
+            <label className="flex items-center gap-2 text-xs text-ink-700">
+              Meter unit
+              <Select value={unit} onChange={(ev) => setUnit(spec, ev.target.value as ReadingUnit)} className="min-h-9 w-24 text-sm" aria-label={`Unit for ${spec.label}`}>
+                {units.map((u) => (
+                  <option key={u} value={u}>
+                    {unitLabel(u)}
+                  </option>
+                ))}
+              </Select>
+            </label>
+          )}
+        </div>
+        <div className="mt-2 grid grid-cols-2 gap-3">
+          {specPhases(spec).map((phase) => (
+            <ReadingCell
+              key={phase}
+              spec={spec}
+              phase={phase}
+              unit={unit}
+              reading={mine.find((r) => r.phase === phase)}
+              required={need.has(`${spec.key}:${phase}`)}
+              error={problems[`readings.${spec.key}.${phase}`]}
+              onChange={(value) => setReading(spec, phase, unit, value)}
+            />
+          ))}
+        </div>
+      </li>
+    );
+  };
+
+  // Required readings first; the model's other readings fold away (open when some were entered).
+  const isRequired = (spec: Spec) => specPhases(spec).some((p) => need.has(`${spec.key}:${p}`));
+  const shown = ordered.filter(isRequired);
+  const more = ordered.filter((spec) => !isRequired(spec));
+
   return (
     <FormSection id="section-readings" title="Readings" description="Enter each reading in the unit your meter shows; it is converted to the specification’s unit and judged against its tolerance." note={note}>
       <SafetyCautions topic="readings" gas={gas} />
       {specs.length === 0 && <p className="text-sm text-ink-600">This model has no reading specifications.</p>}
-      <ul className="space-y-3">
-        {ordered.map((spec) => {
-          const mine = readings.filter((r) => r.key === spec.key);
-          const units = unitsFor(spec.unit);
-          const unit = (mine[0]?.unit ?? (units.includes(spec.unit as ReadingUnit) ? spec.unit : units[0])) as ReadingUnit;
-          const isRequired = specPhases(spec).some((p) => need.has(`${spec.key}:${p}`));
-          return (
-            <li key={spec.key} className="rounded-md border border-ink-100 p-3" aria-label={spec.label}>
-              <div className="flex flex-wrap items-start justify-between gap-2">
-                <div>
-                  <p className="text-sm font-medium text-ink-900">
-                    {spec.label}
-                    {isRequired && (
-                      <Badge tone="brass" className="ml-2">
-                        Required for this repair
-                      </Badge>
-                    )}
-                  </p>
-                  <p className="text-xs text-ink-600">
-                    Specification {num(spec.nominal)} ± {num(spec.tolerance)} {unitLabel(spec.unit as UnitCode)}
-                  </p>
-                </div>
-                {units.length > 1 && (
-                  <label className="flex items-center gap-2 text-xs text-ink-700">
-                    Meter unit
-                    <Select value={unit} onChange={(ev) => setUnit(spec, ev.target.value as ReadingUnit)} className="min-h-9 w-24 text-sm" aria-label={`Unit for ${spec.label}`}>
-                      {units.map((u) => (
-                        <option key={u} value={u}>
-                          {unitLabel(u)}
-                        </option>
-                      ))}
-                    </Select>
-                  </label>
-                )}
-              </div>
-              <div className="mt-2 grid grid-cols-2 gap-3">
-                {specPhases(spec).map((phase) => (
-                  <ReadingCell
-                    key={phase}
-                    spec={spec}
-                    phase={phase}
-                    unit={unit}
-                    reading={mine.find((r) => r.phase === phase)}
-                    required={need.has(`${spec.key}:${phase}`)}
-                    error={problems[`readings.${spec.key}.${phase}`]}
-                    onChange={(value) => setReading(spec, phase, unit, value)}
-                  />
-                ))}
-              </div>
-            </li>
-          );
-        })}
-      </ul>
+      {shown.length > 0 && <ul className="space-y-3">{shown.map(renderSpec)}</ul>}
+      {more.length > 0 && (
+        <details className="rounded-md border border-ink-100" open={openMore || shown.length === 0 || undefined} onToggle={(ev) => setOpenMore((ev.target as HTMLDetailsElement).open)}>
+          <summary className="cursor-pointer px-3 py-2.5 text-sm font-medium text-ink-800">
+            {shown.length === 0 ? 'Readings of this model' : `Other readings of this model (optional): ${more.length}`}
+          </summary>
+          <ul className="space-y-3 border-t border-ink-100 p-3">{more.map(renderSpec)}</ul>
+        </details>
+      )}
       <GroupError>{Array.isArray(e) ? e.map((x) => x?.value?.message ?? x?.key?.message).filter(Boolean).join(' ') : (e?.message ?? e?.root?.message)}</GroupError>
     </FormSection>
   );

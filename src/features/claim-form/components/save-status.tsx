@@ -5,6 +5,20 @@ import type { SaveState } from '../hooks/use-autosave';
 
 const time = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
 
+const words: Record<string, string> = {
+  complaint: 'complaint',
+  cause: 'cause',
+  correction: 'correction',
+  failureDate: 'failure date',
+  repairDate: 'repair date',
+  preAuthorization: 'pre-authorisation number',
+  laborLines: 'labor',
+  travel: 'travel',
+  partLines: 'parts',
+  readings: 'readings',
+};
+const fieldWords = (f: string) => words[f.split('.')[0]] ?? f.split('.')[0];
+
 /** Where the draft stands against the server, in a few words, with a retry when a save failed. */
 export function SaveStatus({ state, onRetry, className }: { state: SaveState; onRetry: () => void; className?: string }) {
   let body;
@@ -33,7 +47,7 @@ export function SaveStatus({ state, onRetry, className }: { state: SaveState; on
     case 'invalid':
       body = (
         <span className="text-brass-700">
-          Not saved: fix the marked field{state.fields.length === 1 ? '' : 's'}
+          Not saved yet: {[...new Set(state.fields.map(fieldWords))].join(', ')} incomplete
           {state.at ? ` · the rest saved ${time.format(state.at)}` : ''}
         </span>
       );

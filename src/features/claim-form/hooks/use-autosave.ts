@@ -32,8 +32,8 @@ export interface AutosaveOptions {
 
 export interface Autosave {
   state: SaveState;
-  /** Saves now (after any save in flight); true when every change is on the server. */
-  flush: () => Promise<boolean>;
+  /** Saves now (after any save in flight); true when every change is on the server. `mark` shows the errors of fields held back. */
+  flush: (opts?: { mark?: boolean }) => Promise<boolean>;
   /** The version of the claim the last save left on the server. */
   version: () => number;
   /** Takes a claim loaded from the server as the saved state (after a conflict reload). */
@@ -58,7 +58,7 @@ export function useAutosave({ claimId, version: initialVersion, form, delayMs = 
   const callbacks = useRef({ onSaved, onConflict });
   callbacks.current = { onSaved, onConflict };
 
-  const run = useCallback(async (): Promise<boolean> => {
+  const run = useCallback(async (mark: boolean): Promise<boolean> => {
     const values = form.getValues();
     const body: Record<string, unknown> = {};
     const sent: Partial<Snapshot> = {};
@@ -74,7 +74,8 @@ export function useAutosave({ claimId, version: initialVersion, form, delayMs = 
       body[key] = parsed.data;
       sent[key] = raw;
     }
-    if (invalid.length > 0) void form.trigger(invalid as Path<ClaimFormValues>[]);
+    // Fields still being typed are held back quietly; their errors show when the user leaves them, or on submit.
+    if (mark && invalid.length > 0) void form.trigger(invalid as Path<ClaimFormValues>[]);
     if (Object.keys(body).length === 0) {
       setState(invalid.length > 0 ? { status: 'invalid', fields: invalid, at: lastAt.current } : lastAt.current ? { status: 'saved', at: lastAt.current } : { status: 'idle' });
       return invalid.length === 0;
@@ -105,10 +106,10 @@ export function useAutosave({ claimId, version: initialVersion, form, delayMs = 
     }
   }, [claimId, form]);
 
-  const flush = useCallback((): Promise<boolean> => {
+  const flush = useCallback((opts: { mark?: boolean } = {}): Promise<boolean> => {
     if (timer.current) clearTimeout(timer.current);
     timer.current = null;
-    const next = chain.current.then(run);
+    const next = chain.current.then(() => run(opts.mark === true));
     chain.current = next.catch(() => false);
     return next;
   }, [run]);
