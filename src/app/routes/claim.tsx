@@ -16,9 +16,7 @@ import { formatCents, formatDateTime, plural } from '@/lib/format';
 import { claimQueries } from '@/features/claims/api/claim-queries';
 import { useClaim } from '@/features/claims/api/get-claim';
 import { useClaimValuation } from '@/features/claims/api/get-claim-valuation';
-import { ClaimAttachments } from '@/features/claims/components/claim-attachments';
 import { ClaimLines } from '@/features/claims/components/claim-lines';
-import { ClaimReadings } from '@/features/claims/components/claim-readings';
 import { ClaimStateBadge } from '@/features/claims/components/claim-state-badge';
 import { ClaimDatesCard, ClaimSiteCard, ClaimStory, ClaimUnitCard } from '@/features/claims/components/claim-summary';
 import { ClaimActionsBar } from '@/features/claims/components/claim-actions-bar';
@@ -26,6 +24,8 @@ import { ValuationBreakdown } from '@/features/claims/components/valuation-break
 import { PartReturnsPanel } from '@/features/part-returns/components/part-returns-panel';
 import { AdjustmentsPanel } from '@/features/review/components/adjustments-panel';
 import { ClaimActivity } from '@/features/comments/components/claim-activity';
+import { EvidencePanel } from '@/features/evidence/components/evidence-panel';
+import { ReadingsPanel } from '@/features/evidence/components/readings-panel';
 import { loadOrSignIn, requireSession } from '../require-session';
 
 export const claimLoader =
@@ -175,8 +175,8 @@ export function ClaimRoute() {
           <ClaimLines claim={c} valuation={valuation.data} />
           <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />
           <ValuationSection claimId={c.id} />
-          <ClaimReadings claim={c} />
-          <ClaimAttachments claim={c} />
+          <ReadingsPanel claimId={c.id} />
+          <EvidencePanel claimId={c.id} editable={false} />
         </div>
         <div className="space-y-5">
           <ClaimUnitCard claim={c} />
