@@ -23,6 +23,7 @@ import {
   type Claim,
 } from '../../db/schema/index';
 import { abilityToSql } from '../../lib/casl-to-sql';
+import { allowancesOn, pricesOn } from '../admin/catalog.queries';
 import { ValidationError } from '../../lib/errors';
 import type { Action, AppAbility } from '@shared/permissions/ability';
 import type { ClaimDetail, ClaimListItem, ClaimListQuery } from '@shared/schemas/claim';
@@ -389,6 +390,11 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
     .where(eq(claimLaborLines.claimId, row.id))
     .orderBy(asc(claimLaborLines.position))
     .all();
+  if (row.repairDate && laborLines.length > 0) {
+    // the allowance in force on the repair date, as the valuation uses it
+    const hours = allowancesOn(db, [...new Set(laborLines.map((l) => l.repairCodeId))], row.repairDate);
+    for (const l of laborLines) l.allowedHours = hours.get(l.repairCodeId) ?? l.allowedHours;
+  }
 
   const travel = db
     .select({
@@ -424,6 +430,10 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
     .where(eq(claimPartLines.claimId, row.id))
     .orderBy(asc(claimPartLines.position))
     .all();
+  if (row.repairDate && partLines.length > 0) {
+    const prices = pricesOn(db, [...new Set(partLines.map((p) => p.partId))], row.repairDate);
+    for (const p of partLines) p.listPriceCents = prices.get(p.partId) ?? p.listPriceCents;
+  }
 
   const readings = db
     .select({ id: claimReadings.id, key: claimReadings.key, phase: claimReadings.phase, value: claimReadings.value, unit: claimReadings.unit })
