@@ -60,18 +60,16 @@ export function ClaimEditRoute() {
   return (
     <div className="space-y-5">
       <title>{`${c.state === 'returned' ? 'Fix' : 'Edit'} ${c.number} · Fieldproof`}</title>
-      <Link to={paths.claims} className="inline-flex items-center gap-1 text-sm text-ink-700 underline-offset-2 hover:underline">
-        <span aria-hidden="true">←</span> Claims
-      </Link>
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <Link to={paths.claims} className="inline-flex items-center gap-1 text-sm text-ink-700 underline-offset-2 hover:underline">
+          <span aria-hidden="true">←</span> Claims
+        </Link>
+        <ClaimActionsBar claim={c} only={['withdraw']} onMoved={(next) => navigate(paths.claim(next.id), { replace: true })} />
+      </div>
       <ClaimEditor
         key={c.id}
         claim={c}
-        headerExtra={
-          <>
-            <ClaimStateBadge state={c.state} />
-            <ClaimActionsBar claim={c} only={['withdraw']} onMoved={(next) => navigate(paths.claim(next.id), { replace: true })} />
-          </>
-        }
+        headerExtra={<ClaimStateBadge state={c.state} />}
         renderValuation={(v) => <ValuationBreakdown valuation={v} />}
         renderUploader={({ gas, onImported }) => <EvidencePanel claimId={c.id} editable bare gas={gas} onImported={onImported} />}
         submitClaim={(version) => move.mutateAsync({ type: 'submit', version })}

@@ -12,6 +12,7 @@ import { paths } from '@/config/paths';
 import { useAppAbility } from '@/lib/ability';
 import { errorMessage } from '@/lib/api-client';
 import { plural } from '@/lib/format';
+import { useSession } from '@/features/auth/api/get-me';
 import { reviewQueueQuery, useReviewQueue } from '@/features/review/api/get-review-queue';
 import { useModels } from '@/features/review/api/get-models';
 import { useStartReview } from '@/features/review/api/start-review';
@@ -49,6 +50,7 @@ export function ReviewQueueRoute() {
   const navigate = useNavigate();
   const location = useLocation();
   const ability = useAppAbility();
+  const me = useSession();
   const queue = useReviewQueue(filters);
   const models = useModels();
   const start = useStartReview();
@@ -113,6 +115,7 @@ export function ReviewQueueRoute() {
           <>
             <ReviewQueueTable
               items={page.items}
+              myName={me?.user.name}
               canStart={(c) => c.state === 'submitted' && ability.can('start_review', subject('Claim', { ...c }))}
               startingId={startingId}
               onStart={onStart}

@@ -162,4 +162,18 @@ describe('ClaimEditor autosave', () => {
     await userEvent.setup().click(within(check).getByRole('link', { name: 'Describe the cause you found.' }));
     expect(screen.getByLabelText('Cause')).toHaveFocus();
   });
+
+  it('adds a labor line without marking it wrong before it is touched, and removes it', async () => {
+    fake = catalogAnd(() => json(draft({ version: 4 })));
+    renderEditor();
+    const user = userEvent.setup();
+    await user.click(await screen.findByRole('button', { name: 'Add a labor line' }));
+    const added = await screen.findByRole('listitem', { name: 'Labor line 2' });
+    expect(within(added).getByLabelText('Repair code')).toHaveFocus();
+    expect(within(added).queryByText('Choose a repair code.')).not.toBeInTheDocument();
+    expect(within(added).getByLabelText('Hours worked')).not.toHaveAttribute('aria-invalid');
+    await user.click(within(added).getByRole('button', { name: 'Remove line 2' }));
+    expect(screen.queryByRole('listitem', { name: 'Labor line 2' })).not.toBeInTheDocument();
+    expect(screen.getByRole('listitem', { name: 'Labor line 1' })).toBeInTheDocument();
+  });
 });

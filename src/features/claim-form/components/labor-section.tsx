@@ -20,8 +20,23 @@ export function LaborSection({
   gas: boolean;
   note?: ReturnInfo | null;
 }) {
-  const { control, register, formState } = form;
-  const { fields, append, remove } = useFieldArray({ control, name: 'laborLines' });
+  const { control, register, formState, getValues, setValue, clearErrors } = form;
+  const { fields } = useFieldArray({ control, name: 'laborLines' });
+  // Lines are added and removed through setValue: the field array's own append validates the
+  // whole list at once, marking a line as wrong before the technician has touched it.
+  const append = () => {
+    const n = (getValues('laborLines') ?? []).length;
+    setValue('laborLines', [...(getValues('laborLines') ?? []), { repairCodeId: '', hoursWorked: Number.NaN, overtime: false, note: '' }], { shouldDirty: true });
+    setTimeout(() => document.getElementById(fieldDomId(`laborLines.${n}.repairCodeId`))?.focus(), 0);
+  };
+  const remove = (i: number) => {
+    clearErrors('laborLines');
+    setValue(
+      'laborLines',
+      (getValues('laborLines') ?? []).filter((_, j) => j !== i),
+      { shouldDirty: true },
+    );
+  };
   const lines = useWatch({ control, name: 'laborLines' }) ?? [];
   const byId = new Map(repairCodes.map((c) => [c.id, c]));
   const anyOvertime = lines.some((l) => l?.overtime);
@@ -87,7 +102,7 @@ export function LaborSection({
       </ol>
       <GroupError>{listError}</GroupError>
       <div>
-        <Button id={fieldDomId('laborLines')} variant="secondary" onClick={() => append({ repairCodeId: '', hoursWorked: Number.NaN, overtime: false, note: '' })} disabled={fields.length >= 20}>
+        <Button id={fieldDomId('laborLines')} variant="secondary" onClick={append} disabled={fields.length >= 20}>
           Add a labor line
         </Button>
       </div>

@@ -67,8 +67,17 @@ export function PartsSection({
   currency: string;
   note?: ReturnInfo | null;
 }) {
-  const { control, register, formState } = form;
-  const { fields, append, remove } = useFieldArray({ control, name: 'partLines' });
+  const { control, register, formState, getValues, setValue, clearErrors } = form;
+  const { fields } = useFieldArray({ control, name: 'partLines' });
+  const append = (line: { partId: string; quantity: number }) => setValue('partLines', [...(getValues('partLines') ?? []), line], { shouldDirty: true });
+  const remove = (i: number) => {
+    clearErrors('partLines');
+    setValue(
+      'partLines',
+      (getValues('partLines') ?? []).filter((_, j) => j !== i),
+      { shouldDirty: true },
+    );
+  };
   const lines = useWatch({ control, name: 'partLines' }) ?? [];
   const byId = new Map(parts.map((p) => [p.id, p]));
   const longer = new Map(componentTerms.map((c) => [c.partId, c]));

@@ -31,11 +31,18 @@ export function ReviewQueueFilterBar({
   }, [filters.min, filters.max]);
   const set = (patch: Partial<ReviewQueueFilters>) => onChange({ ...filters, ...patch, cursor: undefined });
   const any = Boolean(filters.status || filters.agency || filters.flag || filters.model || filters.min || filters.max);
+  const [shown, setShown] = useState(false);
+  const count = [filters.status, filters.agency, filters.flag, filters.model, filters.min || filters.max].filter(Boolean).length;
   return (
+    <>
+    <Button variant="secondary" size="sm" className="sm:hidden" aria-expanded={shown} aria-controls="queue-filters" onClick={() => setShown((s) => !s)}>
+      {shown ? 'Hide filters' : count > 0 ? `Filters (${count})` : 'Filters'}
+    </Button>
     <form
+      id="queue-filters"
       role="search"
       aria-label="Filter the review queue"
-      className="grid gap-3 sm:grid-cols-2 lg:grid-cols-[repeat(4,minmax(0,1fr))_minmax(0,1.4fr)_auto] lg:items-end"
+      className={`${shown ? 'mt-3 grid' : 'hidden'} gap-3 sm:mt-0 sm:grid sm:grid-cols-2 lg:grid-cols-[repeat(4,minmax(0,1fr))_minmax(0,1.4fr)_auto] lg:items-end`}
       onSubmit={(e) => {
         e.preventDefault();
         set({ min: min.trim() || undefined, max: max.trim() || undefined });
@@ -44,7 +51,7 @@ export function ReviewQueueFilterBar({
       <Field label="State">
         {(p) => (
           <Select {...p} value={filters.status ?? ''} onChange={(e) => set({ status: (e.target.value || undefined) as ReviewQueueFilters['status'] })}>
-            <option value="">Waiting and in review</option>
+            <option value="">All in the queue</option>
             <option value="submitted">Waiting for a reviewer</option>
             <option value="in_review">In review</option>
           </Select>
@@ -108,5 +115,6 @@ export function ReviewQueueFilterBar({
         )}
       </div>
     </form>
+    </>
   );
 }
