@@ -19,9 +19,9 @@ function takenText(a: AttachmentView): string {
 function Lightbox({ attachment, flags, onClose }: { attachment: AttachmentView; flags: EvidenceFlagView[]; onClose: () => void }) {
   const ref = useRef<HTMLDialogElement>(null);
   useEffect(() => {
+    // Opened once mounted; unmounting removes the dialog, which ends the modal state.
     const d = ref.current;
     if (d && !d.open) d.showModal?.();
-    return () => d?.close?.();
   }, []);
   return (
     <dialog ref={ref} onClose={onClose} aria-labelledby="lightbox-title" className="m-auto max-h-[95vh] w-[min(64rem,95vw)] overflow-auto rounded-lg p-0 backdrop:bg-ink-900/70">
@@ -90,9 +90,9 @@ export function EvidenceGallery({ attachments, flags }: { attachments: Attachmen
                   {mine.length > 0 && (
                     <span className="flex flex-wrap gap-1">
                       {[...new Set(mine.map((f) => f.code))].map((c) => (
-                        <Badge key={c} tone="brass">
+                        <span key={c} className="rounded-full bg-brass-100 px-2 py-0.5 text-xs font-semibold text-brass-700 ring-1 ring-inset ring-brass-300">
                           {evidenceFlagLabels[c]}
-                        </Badge>
+                        </span>
                       ))}
                     </span>
                   )}

@@ -46,13 +46,15 @@ function QueueRow({ item, onRetry, onRole, onRemove }: { item: UploadItem; onRet
         <label htmlFor={roleId} className="text-ink-700">
           Role
         </label>
-        <Select id={roleId} value={item.role} disabled={!editable || item.asReadings} onChange={(e) => onRole(e.target.value as AttachmentRole)} className="w-auto min-h-9 py-1 text-sm">
-          {attachmentRoles.map((r) => (
-            <option key={r} value={r}>
-              {attachmentRoleLabels[r]}
-            </option>
-          ))}
-        </Select>
+        <div className="w-56 max-w-full">
+          <Select id={roleId} value={item.role} disabled={!editable || item.asReadings} onChange={(e) => onRole(e.target.value as AttachmentRole)} className="min-h-9 py-1 text-sm">
+            {attachmentRoles.map((r) => (
+              <option key={r} value={r}>
+                {attachmentRoleLabels[r]}
+              </option>
+            ))}
+          </Select>
+        </div>
         {item.status === 'failed' && (
           <>
             <Button size="sm" variant="secondary" onClick={onRetry}>
@@ -114,11 +116,11 @@ export function EvidenceUploader({ claimId, onImported, maxFileBytes = 15 * 1024
   return (
     <div className="space-y-3" aria-label="Add evidence">
       <div className="flex flex-wrap items-end gap-3">
-        <div>
+        <div className="w-64 max-w-full">
           <label htmlFor={roleId} className="block text-sm font-medium text-ink-800">
             What are you adding?
           </label>
-          <Select id={roleId} value={role} onChange={(e) => setRole(e.target.value as AttachmentRole)} className="mt-1 w-auto">
+          <Select id={roleId} value={role} onChange={(e) => setRole(e.target.value as AttachmentRole)} className="mt-1">
             {attachmentRoles.map((r) => (
               <option key={r} value={r}>
                 {attachmentRoleLabels[r]}
