@@ -5,6 +5,8 @@ import type { BenchContext, Figure, Measurement } from './lib/measurement';
 import { claimList } from './measurements/claim-list';
 import { clientBundle } from './measurements/client-bundle';
 import { paidClaimsExport } from './export';
+import { photoIntake } from './photo-intake';
+import { valuation } from './measurements/valuation';
 
 /**
  * `npm run bench`: every measurement in order, then one summary. Add a measurement by writing
@@ -12,7 +14,7 @@ import { paidClaimsExport } from './export';
  * Options (environment): BENCH_CONNECTIONS (10), BENCH_DURATION seconds (10), BENCH_CLAIMS (100000),
  * BENCH_ONLY (comma-separated substrings of measurement names).
  */
-const measurements: Measurement[] = [claimList, clientBundle, paidClaimsExport];
+const measurements: Measurement[] = [claimList, valuation, clientBundle, paidClaimsExport, photoIntake];
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 const num = (v: string | undefined, d: number) => (v && Number.isFinite(Number(v)) && Number(v) > 0 ? Number(v) : d);

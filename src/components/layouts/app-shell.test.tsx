@@ -29,7 +29,7 @@ describe('AppShell navigation', () => {
     ['agency_admin', ['Home', 'Claims', 'Payment runs', 'Users']],
     ['reviewer', ['Home', 'Claims', 'Review queue']],
     ['accountant', ['Home', 'Claims', 'Payment runs']],
-    ['manufacturer_admin', ['Home', 'Users', 'Catalogue']],
+    ['manufacturer_admin', ['Home', 'Users', 'Catalogue', 'Agencies']],
   ])('shows a %s only what the ability allows', (role, expected) => {
     renderShell(role);
     expect(navLabels()).toEqual(expected);
