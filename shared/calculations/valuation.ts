@@ -42,6 +42,8 @@ export interface Certification {
 
 export interface PriorRepair {
   claimId?: string | null;
+  /** Shown in the flag's reason when present (e.g. the claim number). */
+  claimNumber?: string | null;
   serial: string;
   repairCode: string;
   repairDate: string;
@@ -488,7 +490,7 @@ export function valueClaim(input: ValuationInput): Valuation {
     });
     if (repeats.length > 0) {
       const list = repeats
-        .map((p) => `${p.repairDate}${p.claimId ? ` (claim ${p.claimId})` : ''}, ${daysBetween(p.repairDate, input.repairDate)} days before`)
+        .map((p) => `${p.repairDate}${p.claimNumber ? ` (claim ${p.claimNumber})` : p.claimId ? ` (claim ${p.claimId})` : ''}, ${daysBetween(p.repairDate, input.repairDate)} days before`)
         .join('; ');
       addFlag(
         'repeat_repair',

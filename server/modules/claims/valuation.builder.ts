@@ -2,7 +2,7 @@
  * Builds the inputs of the shared computation (valuation, submit validation, workflow facts)
  * from the database rows of one claim. Reads only; the caller has already checked the scope.
  */
-import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, or } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, notInArray, or } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import {
   agencyTerms,
@@ -52,7 +52,7 @@ export interface ClaimInputs {
   specs: (typeof readingSpecs.$inferSelect)[];
   attachmentRoles: string[];
   technician: { id: string; name: string; certifications: { familyId: string; validFrom: string; validTo: string | null }[] };
-  priorRepairs: { claimId: string; serial: string; repairCode: string; repairDate: string }[];
+  priorRepairs: { claimId: string; claimNumber: string; serial: string; repairCode: string; repairDate: string }[];
 }
 
 /** Loads every row the computation of one claim needs, in a handful of indexed reads. */
@@ -154,14 +154,14 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
   const priorRepairs =
     unit && codes.length > 0
       ? db
-          .select({ claimId: claims.id, serial: units.serial, repairCode: repairCodes.code, repairDate: claims.repairDate })
+          .select({ claimId: claims.id, claimNumber: claims.number, serial: units.serial, repairCode: repairCodes.code, repairDate: claims.repairDate })
           .from(claims)
           .innerJoin(units, eq(units.id, claims.unitId))
           .innerJoin(claimLaborLines, eq(claimLaborLines.claimId, claims.id))
           .innerJoin(repairCodes, eq(repairCodes.id, claimLaborLines.repairCodeId))
-          .where(and(eq(claims.unitId, unit.id), ne(claims.id, claim.id), ne(claims.state, 'withdrawn'), inArray(repairCodes.code, codes)))
+          .where(and(eq(claims.unitId, unit.id), ne(claims.id, claim.id), notInArray(claims.state, ['draft', 'withdrawn']), inArray(repairCodes.code, codes)))
           .all()
-          .filter((r): r is { claimId: string; serial: string; repairCode: string; repairDate: string } => r.repairDate !== null)
+          .filter((r): r is { claimId: string; claimNumber: string; serial: string; repairCode: string; repairDate: string } => r.repairDate !== null)
       : [];
 
   return {
