@@ -20,6 +20,8 @@ export function openDatabase(path: string): Db {
   sqlite.pragma('journal_mode = WAL');
   sqlite.pragma('synchronous = FULL');
   sqlite.pragma('busy_timeout = 5000');
+  // REPLACE deletes a conflicting row; only with recursive triggers does that fire the triggers that keep audit rows and claim events.
+  sqlite.pragma('recursive_triggers = ON');
   sqlite.pragma('foreign_keys = OFF');
   const db = drizzle(sqlite, { schema }) as Db;
   migrate(db, { migrationsFolder });

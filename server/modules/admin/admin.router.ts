@@ -1,7 +1,9 @@
 import { Router } from 'express';
+import { eq } from 'drizzle-orm';
 import type { AppDeps } from '../../lib/deps';
+import { parts, repairCodes } from '../../db/schema/index';
 import { requireCtx } from '../../lib/context';
-import { ForbiddenError } from '../../lib/errors';
+import { ForbiddenError, NotFoundError } from '../../lib/errors';
 import { requireUser } from '../../middleware/authenticate';
 import { parseBody } from '../../middleware/validate';
 import { clientAddress } from '../../middleware/rate-limit';
@@ -99,6 +101,7 @@ export function adminRouter(deps: AppDeps): Router {
   r.get('/parts/:id/prices', (req, res) => {
     const ctx = requireCtx(req);
     catalog.listFamilies(ctx); // same guard as every catalogue read
+    if (!deps.db.select({ id: parts.id }).from(parts).where(eq(parts.id, req.params.id)).get()) throw new NotFoundError('No such part.');
     res.json({ items: priceHistory(deps.db, req.params.id) });
   });
 
@@ -116,6 +119,7 @@ export function adminRouter(deps: AppDeps): Router {
   r.get('/repair-codes/:id/allowances', (req, res) => {
     const ctx = requireCtx(req);
     catalog.listFamilies(ctx);
+    if (!deps.db.select({ id: repairCodes.id }).from(repairCodes).where(eq(repairCodes.id, req.params.id)).get()) throw new NotFoundError('No such repair code.');
     res.json({ items: allowanceHistory(deps.db, req.params.id) });
   });
 

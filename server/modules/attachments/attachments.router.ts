@@ -4,7 +4,7 @@ import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
 import { clientAddress } from '../../middleware/rate-limit';
-import { AppError, NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
+import { NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
 import { writeAudit } from '../../lib/audit';
 import { storageFor } from '../../lib/storage/create-storage';
 import type { Storage } from '../../lib/storage/storage';
@@ -165,7 +165,7 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
       const flags = evidenceFlags(deps.db, claimId, { revealOtherAgencies: false }).filter((f) => views.some((v) => v.id === f.attachmentId));
       res.status(201).json({ attachments: views, flags: flags.map(({ otherClaimId: _o, ...f }) => f) });
     } catch (e) {
-      if (!(e instanceof AppError && e.status === 404)) service.auditFailure(ctx, claimId, e, ip);
+      service.auditFailure(ctx, claimId, e, ip);
       if (!req.readableEnded) req.resume();
       throw e;
     }

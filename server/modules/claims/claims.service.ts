@@ -87,6 +87,13 @@ export function createClaimsService(deps: AppDeps) {
     return row;
   }
 
+  /** The claim a write aims at: one the user may not read answers 404 and leaves a denied audit row. */
+  function writable(a: Actor, action: string, id: string): Claim {
+    const row = findReadableClaim(db, a.ctx.ability, id);
+    if (!row) throw refuse(a, action, id.slice(0, 64), notFound());
+    return row;
+  }
+
   // ---- reads -------------------------------------------------------------------------------
 
   function list(a: Actor, q: ClaimListQuery): ClaimListPage {
@@ -270,7 +277,7 @@ export function createClaimsService(deps: AppDeps) {
   }
 
   function update(a: Actor, id: string, body: ClaimDraftInput & { version: number }): ClaimDetail {
-    const row = readable(a, id);
+    const row = writable(a, 'claim.update', id);
     if (!couldAct(a, 'update', row, editableStates)) throw refuse(a, 'claim.update', id, new ForbiddenError('You may not edit this claim.'));
     if (!isEditable(row.state)) throw refuse(a, 'claim.update', id, new ConflictError('Only a draft or a returned claim can be edited.', 'not_editable'));
     if (row.version !== body.version) throw refuse(a, 'claim.update', id, staleError());
@@ -309,10 +316,10 @@ export function createClaimsService(deps: AppDeps) {
   }
 
   function transition(a: Actor, id: string, body: TransitionInput): ClaimDetail {
-    const row = readable(a, id);
     const action = body.type as ClaimAction;
     const type = actionToEvent[action];
     const auditAction = `claim.${action}`;
+    const row = writable(a, auditAction, id);
     const detail = { from: row.state, version: body.version };
     const forbidden = () => new ForbiddenError('You may not make this move on this claim.');
     if (!couldAct(a, action, row, statesAllowing(type))) throw refuse(a, auditAction, id, forbidden(), detail);
@@ -424,7 +431,7 @@ export function createClaimsService(deps: AppDeps) {
   // ---- review adjustments ------------------------------------------------------------------
 
   function adjust(a: Actor, id: string, body: AdjustmentsInput): ClaimDetail {
-    const row = readable(a, id);
+    const row = writable(a, 'claim.adjust', id);
     const forbidden = new ForbiddenError('Only a warranty reviewer adjusts the lines of a claim in review.');
     if (!couldAct(a, 'adjust', row, ['in_review'])) throw refuse(a, 'claim.adjust', id, forbidden);
     if (row.version !== body.version) throw refuse(a, 'claim.adjust', id, staleError());
@@ -508,7 +515,7 @@ export function createClaimsService(deps: AppDeps) {
   // ---- comments ----------------------------------------------------------------------------
 
   function comment(a: Actor, id: string, body: CommentInput): ClaimDetail['comments'][number] {
-    const row = readable(a, id);
+    const row = writable(a, 'claim.comment', id);
     if (!can(a, 'comment', row)) throw refuse(a, 'claim.comment', id, new ForbiddenError('You may not comment on this claim.'));
     const { user } = a.ctx;
     const commentId = newId();

@@ -4,7 +4,7 @@ import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
 import { clientAddress } from '../../middleware/rate-limit';
-import { AppError, NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
+import { NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
 import { storageFor } from '../../lib/storage/create-storage';
 import type { Storage } from '../../lib/storage/storage';
 import { checkOriginalName, extensionOf } from '../../lib/photo/file-name';
@@ -76,7 +76,7 @@ export function readingsRouter(deps: AppDeps, opts: { storage?: Storage; limits?
       const result = await service.importCsv(ctx, claimId, { originalName: checkOriginalName(files[0].originalname), buffer: files[0].buffer }, ip, keep);
       res.status(200).json(result);
     } catch (e) {
-      if (!(e instanceof AppError && e.status === 404)) attachments.auditFailure(ctx, claimId, e, ip, 'readings.import');
+      attachments.auditFailure(ctx, claimId, e, ip, 'readings.import');
       if (!req.readableEnded) req.resume();
       if (e instanceof CsvImportRefused) {
         res.status(400).json({ error: { code: e.code, message: e.message, fields: e.fields }, errors: e.errors });
