@@ -22,7 +22,7 @@ import { InviteForm } from '@/features/agency/components/invite-form';
 import { InvitationsList } from '@/features/agency/components/invitations-list';
 import { CertificationsPanel } from '@/features/agency/components/certifications-panel';
 import { AgencyProfileForm } from '@/features/agency/components/agency-profile-form';
-import { Modal } from '@/features/agency/components/modal';
+import { Modal } from '@/components/ui/modal';
 
 const scopeOf = (kind: 'agency' | 'manufacturer' | undefined): UsersScope => (kind === 'manufacturer' ? 'manufacturer' : 'agency');
 

@@ -21,7 +21,7 @@ import { useCreateAgency } from '../api/create-agency';
 import { useUpdateAgency } from '../api/update-agency';
 import { useInviteAgencyAdmin } from '../api/invite-agency-admin';
 import { AgencyFields } from './agency-fields';
-import { Modal } from './modal';
+import { Modal } from '@/components/ui/modal';
 import { TermsForm } from './terms-form';
 
 const agencyFieldNames = ['name', 'contactEmail', 'addressLine', 'city', 'region', 'postalCode', 'latitude', 'longitude', 'timeZone', 'adminEmail'] as const;

@@ -16,7 +16,7 @@ import { applyServerErrors } from '@/lib/form-errors';
 import { useFamilies } from '../api/get-families';
 import { useCreateFamily } from '../api/create-family';
 import { useUpdateFamily } from '../api/update-family';
-import { Modal } from './modal';
+import { Modal } from '@/components/ui/modal';
 
 export function FamiliesPanel() {
   const families = useFamilies();

@@ -21,7 +21,7 @@ import { useUpdateModel } from '../api/update-model';
 import { useCreateReadingSpec } from '../api/create-reading-spec';
 import { useUpdateReadingSpec } from '../api/update-reading-spec';
 import { useDeleteReadingSpec } from '../api/delete-reading-spec';
-import { Modal } from './modal';
+import { Modal } from '@/components/ui/modal';
 
 const phaseLabel: Record<(typeof readingPhases)[number], string> = { before: 'Before repair', after: 'After repair', both: 'Before and after' };
 

@@ -19,7 +19,7 @@ import { useFamilies } from '../api/get-families';
 import { useCreatePart } from '../api/create-part';
 import { useUpdatePart } from '../api/update-part';
 import { usePriceHistory } from '../api/get-price-history';
-import { Modal } from './modal';
+import { Modal } from '@/components/ui/modal';
 import { MoneyInput } from './money-input';
 
 const HISTORY_START = '0001-01-01';

@@ -20,7 +20,7 @@ import { useFamilies } from '../api/get-families';
 import { useCreateRepairCode } from '../api/create-repair-code';
 import { useUpdateRepairCode } from '../api/update-repair-code';
 import { useAllowanceHistory } from '../api/get-allowance-history';
-import { Modal } from './modal';
+import { Modal } from '@/components/ui/modal';
 
 const HISTORY_START = '0001-01-01';
 const since = (d: string) => (d === HISTORY_START ? 'from the start' : `from ${formatDate(d)}`);
