@@ -29,7 +29,7 @@ export function Modal({ open, onClose, title, children }: { open: boolean; onClo
         e.preventDefault();
         onClose();
       }}
-      className="w-full max-w-lg rounded-lg border border-ink-100 bg-white p-0 shadow-xl backdrop:bg-ink-900/40"
+      className="m-auto w-[calc(100%-2rem)] max-w-lg rounded-lg border border-ink-100 bg-white p-0 shadow-xl backdrop:bg-ink-900/40"
     >
       {open && (
         <div>

@@ -13,7 +13,7 @@ import { Field } from '@/components/ui/field';
 import { Select, Textarea } from '@/components/ui/input';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { useTransitionClaim } from '../api/transition-claim';
-import { ActionDialog } from './action-dialog';
+import { Modal } from '@/components/ui/modal';
 
 /** The order the moves appear in; pay is never offered here (it happens in a payment run). */
 const ORDER: ClaimAction[] = ['submit', 'start_review', 'approve', 'return', 'deny', 'withdraw'];
@@ -175,12 +175,12 @@ export function ClaimActionsBar({ claim, only, approveSummary, onMoved }: ClaimA
       )}
       {move.isError && open === null && !isApiError(move.error, 409) && <Alert tone="error">{errorMessage(move.error)}</Alert>}
 
-      <ActionDialog open={open === 'return' || open === 'deny'} onClose={() => setOpen(null)} title={open === 'deny' ? `Deny ${claim.number}` : `Return ${claim.number} to the agency`}>
+      <Modal open={open === 'return' || open === 'deny'} onClose={() => setOpen(null)} title={open === 'deny' ? `Deny ${claim.number}` : `Return ${claim.number} to the agency`}>
         {(open === 'return' || open === 'deny') && (
           <ReasonDialog key={open} move={open} claim={claim} pending={move.isPending} error={dialogError} onCancel={() => setOpen(null)} onConfirm={(v) => send(open, v)} />
         )}
-      </ActionDialog>
-      <ActionDialog open={open === 'approve'} onClose={() => setOpen(null)} title={`Approve ${claim.number}`}>
+      </Modal>
+      <Modal open={open === 'approve'} onClose={() => setOpen(null)} title={`Approve ${claim.number}`}>
         <ConfirmDialog
           text={`${approveSummary ? `${approveSummary} ` : ''}The approved amounts are frozen when you approve, and the claim goes to the next payment run.`}
           confirm="Approve"
@@ -190,8 +190,8 @@ export function ClaimActionsBar({ claim, only, approveSummary, onMoved }: ClaimA
           onCancel={() => setOpen(null)}
           onConfirm={() => void send('approve').catch(() => undefined)}
         />
-      </ActionDialog>
-      <ActionDialog open={open === 'withdraw'} onClose={() => setOpen(null)} title={`Withdraw ${claim.number}`}>
+      </Modal>
+      <Modal open={open === 'withdraw'} onClose={() => setOpen(null)} title={`Withdraw ${claim.number}`}>
         <ConfirmDialog
           text={`Withdraw ${claim.number}? A withdrawn claim is closed for good: it cannot be edited or submitted again. File a new claim if the repair should still be claimed.`}
           confirm="Withdraw the claim"
@@ -201,7 +201,7 @@ export function ClaimActionsBar({ claim, only, approveSummary, onMoved }: ClaimA
           onCancel={() => setOpen(null)}
           onConfirm={() => void send('withdraw').catch(() => undefined)}
         />
-      </ActionDialog>
+      </Modal>
     </div>
   );
 }
