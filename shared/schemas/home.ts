@@ -15,6 +15,16 @@ export interface HomeCard {
   /** Client path with filters, e.g. "/claims?state=returned". */
   href: string;
   tone: 'action' | 'info' | 'warning';
+  /**
+   * `queue`: claims waiting for someone, listed oldest first ("Nothing waiting" when empty).
+   * `count`: a plain number of things (catalogue entries, users, open payment runs) with no list.
+   */
+  kind: 'queue' | 'count';
+  /**
+   * Which amount the listed claims show: `approved` (what the reviewer approved, on queues of
+   * approved claims) or `allowed` (what the rules allow, the amount the claim stands for on submit).
+   */
+  amount: 'approved' | 'allowed';
 }
 
 export interface HomeResponse {

@@ -21,7 +21,7 @@ export function createHomeService(deps: AppDeps) {
 
   function claimCard(
     ctx: RequestContext,
-    c: { key: string; label: string; hint: string; where: SQL; href: string; tone: HomeCard['tone']; order?: 'oldest_submitted' | 'oldest_created' | 'oldest_decided' },
+    c: { key: string; label: string; hint: string; where: SQL; href: string; tone: HomeCard['tone']; order?: 'oldest_submitted' | 'oldest_created' | 'oldest_decided'; amount?: HomeCard['amount'] },
   ): HomeCard {
     return {
       key: c.key,
@@ -31,11 +31,13 @@ export function createHomeService(deps: AppDeps) {
       items: listClaimsWhere(db, ctx.ability, c.where, { order: c.order ?? 'oldest_created', limit: ITEMS }),
       href: c.href,
       tone: c.tone,
+      kind: 'queue',
+      amount: c.amount ?? 'allowed',
     };
   }
 
   const inState = (s: ClaimState) => eq(claims.state, s);
-  const countCard = (key: string, label: string, hint: string, count: number, href: string, tone: HomeCard['tone'] = 'info'): HomeCard => ({ key, label, hint, count, items: [], href, tone });
+  const countCard = (key: string, label: string, hint: string, count: number, href: string, tone: HomeCard['tone'] = 'info'): HomeCard => ({ key, label, hint, count, items: [], href, tone, kind: 'count', amount: 'allowed' });
 
   /** Approved claims with a part still to come back. */
   const awaitingReturn = sql`exists (select 1 from ${claimPartLines} where ${claimPartLines.claimId} = ${claims.id} and ${claimPartLines.returnStatus} in ('awaiting', 'shipped'))`;
@@ -69,8 +71,8 @@ export function createHomeService(deps: AppDeps) {
         cards = [
           claimCard(ctx, { key: 'agency_returned', label: 'Returned claims', hint: 'Fix and resubmit', where: inState('returned'), href: '/claims?state=returned', tone: 'warning' }),
           claimCard(ctx, { key: 'agency_drafts', label: 'Drafts', hint: 'Finish and submit', where: inState('draft'), href: '/claims?state=draft', tone: 'action' }),
-          claimCard(ctx, { key: 'agency_approved', label: 'Approved, awaiting payment', hint: 'Paid in the manufacturer’s next payment run', where: inState('approved'), href: '/claims?state=approved', tone: 'info', order: 'oldest_decided' }),
-          claimCard(ctx, { key: 'agency_part_returns', label: 'Parts to return', hint: 'Ship the failed parts back so the claims can be paid', where: and(inState('approved'), awaitingReturn) as SQL, href: '/claims?state=approved', tone: 'action', order: 'oldest_decided' }),
+          claimCard(ctx, { key: 'agency_approved', label: 'Approved, awaiting payment', hint: 'Paid in the manufacturer’s next payment run', where: inState('approved'), href: '/claims?state=approved', tone: 'info', order: 'oldest_decided', amount: 'approved' }),
+          claimCard(ctx, { key: 'agency_part_returns', label: 'Parts to return', hint: 'Ship the failed parts back so the claims can be paid', where: and(inState('approved'), awaitingReturn) as SQL, href: '/claims?state=approved', tone: 'action', order: 'oldest_decided', amount: 'approved' }),
         ];
         const t = today(deps.clock);
         const soon = db
@@ -96,7 +98,7 @@ export function createHomeService(deps: AppDeps) {
         const notInRun = sql`not exists (select 1 from ${paymentRunItems} where ${paymentRunItems.claimId} = ${claims.id} and ${paymentRunItems.active} = 1)`;
         const openRuns = db.select({ n: sql<number>`count(*)` }).from(paymentRuns).where(eq(paymentRuns.state, 'open')).get()?.n ?? 0;
         cards = [
-          claimCard(ctx, { key: 'ready_to_pay', label: 'Approved, ready to pay', hint: 'Put them in a payment run', where: and(inState('approved'), notInRun, returnsSettled) as SQL, href: '/payment-runs', tone: 'action', order: 'oldest_decided' }),
+          claimCard(ctx, { key: 'ready_to_pay', label: 'Approved, ready to pay', hint: 'Put them in a payment run', where: and(inState('approved'), notInRun, returnsSettled) as SQL, href: '/payment-runs', tone: 'action', order: 'oldest_decided', amount: 'approved' }),
           countCard('open_runs', 'Open payment runs', 'Mark them paid once the remittance is sent', openRuns, '/payment-runs', openRuns > 0 ? 'action' : 'info'),
         ];
         break;

@@ -10,6 +10,8 @@ const toneBar: Record<HomeCardData['tone'], string> = {
   info: 'border-t-ink-400',
 };
 
+const amountWord: Record<HomeCardData['amount'], string> = { approved: 'Approved', allowed: 'Allowed' };
+
 /** One queue: how many wait, what to do, and the oldest few, each one tap away. */
 export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData; now?: Date; showAgency?: boolean }) {
   const headingId = `home-card-${card.key}`;
@@ -24,7 +26,7 @@ export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData;
         </div>
         <p className="text-3xl font-bold tabular-nums text-ink-800">
           {card.count.toLocaleString('en-US')}
-          <span className="sr-only"> waiting</span>
+          {card.kind === 'queue' && <span className="sr-only"> waiting</span>}
         </p>
       </header>
       {card.items.length > 0 ? (
@@ -41,7 +43,10 @@ export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData;
                       <span className="block truncate text-ink-600">{showAgency ? c.agencyName : [c.technicianName, c.modelNumber].filter(Boolean).join(' · ')}</span>
                     </span>
                     <span className="shrink-0 text-right">
-                      <span className="block tabular-nums font-medium">{formatCents(c.claimedTotalCents, c.currency)}</span>
+                      <span className="block tabular-nums font-medium">
+                        <span className="sr-only">{amountWord[card.amount]} </span>
+                        {formatCents(card.amount === 'approved' ? (c.approvedTotalCents ?? c.claimedTotalCents) : c.claimedTotalCents, c.currency)}
+                      </span>
                       <span className="block text-xs text-ink-600">{age === null ? '' : age === 0 ? 'today' : `${age} day${age === 1 ? '' : 's'} old`}</span>
                     </span>
                   </Link>
@@ -50,8 +55,12 @@ export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData;
             })}
           </ul>
         </>
-      ) : (
+      ) : card.kind === 'queue' && card.count === 0 ? (
         <p className="flex-1 px-4 pb-2 pt-3 text-sm text-ink-600">Nothing waiting.</p>
+      ) : card.kind === 'count' && card.count === 0 ? (
+        <p className="flex-1 px-4 pb-2 pt-3 text-sm text-ink-600">None yet.</p>
+      ) : (
+        <div className="flex-1" />
       )}
       <footer className="border-t border-ink-100 px-4 py-2.5">
         <Link to={card.href} className="text-sm font-medium text-ink-700 underline-offset-2 hover:underline">
