@@ -5,6 +5,7 @@ import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import * as schema from './schema/index';
+import { nameKey } from '@shared/schemas/text';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 
@@ -23,6 +24,8 @@ export function openDatabase(path: string): Db {
   // REPLACE deletes a conflicting row; only with recursive triggers does that fire the triggers that keep audit rows and claim events.
   sqlite.pragma('recursive_triggers = ON');
   sqlite.pragma('foreign_keys = OFF');
+  // The migration that added organisations.name_key backfills it with the same function the services use.
+  sqlite.function('fp_name_key', { deterministic: true }, (name: unknown) => nameKey(String(name ?? '')));
   const db = drizzle(sqlite, { schema }) as Db;
   migrate(db, { migrationsFolder });
   sqlite.pragma('foreign_keys = ON');

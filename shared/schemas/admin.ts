@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { roles, type Role } from '../permissions/ability';
 import { emailSchema, newPasswordSchema } from './user';
 import { attachmentRoles, type AttachmentRole } from './claim';
+import { oneLine, optionalOneLine } from './text';
 
 /**
  * Contracts for administration: agency users, invitations, certifications, the agency profile,
@@ -10,13 +11,10 @@ import { attachmentRoles, type AttachmentRole } from './claim';
  */
 
 const isoDate = z.iso.date('Use a date like 2026-03-31.');
-const text = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters.`);
-const required = (max: number, message: string) => text(max).min(1, message);
+/** One line of text, NFC, trimmed, without control, text-direction or invisible characters (shared/schemas/text.ts). */
+const required = (max: number, message: string, label: string, min = 1) => oneLine({ max, min, label, required: message });
 /** A text field that may be left blank: '' is stored as null. */
-const optionalText = (max: number) =>
-  text(max)
-    .nullable()
-    .transform((v) => (v === '' ? null : v));
+const optionalText = (max: number, label: string) => optionalOneLine({ max, label });
 const id = (message = 'Choose one.') => z.string().min(1, message).max(64);
 /** An e-mail that may be left blank: '' is stored as null. */
 const optionalEmail = z
@@ -33,7 +31,7 @@ export const CERTIFICATION_WARNING_DAYS = 30;
 
 // ---------------------------------------------------------------------------- users and invitations
 
-export const personNameSchema = required(120, 'Enter a name.').min(2, 'Enter at least 2 characters.');
+export const personNameSchema = required(120, 'Enter a name.', 'Name', 2);
 
 export const inviteBodySchema = z.strictObject({
   email: emailSchema,
@@ -109,7 +107,7 @@ export interface InvitationPreview {
 const certificationFields = {
   userId: id('Choose a technician.'),
   familyId: id('Choose a product family.'),
-  certificateNumber: required(60, 'Enter the certificate number.'),
+  certificateNumber: required(60, 'Enter the certificate number.', 'The certificate number'),
   validFrom: isoDate,
   validTo: isoDate,
   /** A PDF already uploaded through the evidence upload path; null when none. */
@@ -186,11 +184,11 @@ export const latitudeSchema = z.number('Enter the latitude as a number.').min(-9
 export const longitudeSchema = z.number('Enter the longitude as a number.').min(-180, 'Between -180 and 180.').max(180, 'Between -180 and 180.');
 
 const profileFields = {
-  name: required(120, 'Enter the agency name.').min(2, 'Enter at least 2 characters.'),
+  name: required(120, 'Enter the agency name.', 'The agency name', 2),
   contactEmail: optionalEmail,
-  addressLine: optionalText(200),
-  city: optionalText(80),
-  region: optionalText(40),
+  addressLine: optionalText(200, 'The address'),
+  city: optionalText(80, 'The city'),
+  region: optionalText(40, 'The state or province'),
   postalCode: postalCodeSchema.nullable(),
   /** Left out or null: filled from the postal code. Given: kept as corrected by hand. */
   latitude: latitudeSchema.nullable(),
@@ -245,11 +243,11 @@ const months = (label: string) => z.number(`Enter ${label} as a whole number.`).
 
 export const createFamilySchema = z.strictObject({
   code: catalogCode('family code'),
-  name: required(80, 'Enter the family name.'),
+  name: required(80, 'Enter the family name.', 'The family name'),
   fuel: z.enum(['gas', 'electric'], 'Choose gas or electric.'),
 });
 export const updateFamilySchema = z.strictObject({
-  name: required(80, 'Enter the family name.').optional(),
+  name: required(80, 'Enter the family name.', 'The family name').optional(),
   fuel: z.enum(['gas', 'electric'], 'Choose gas or electric.').optional(),
   active: z.boolean().optional(),
 });
@@ -258,7 +256,7 @@ export type UpdateFamilyBody = z.infer<typeof updateFamilySchema>;
 
 export const componentTermSchema = z.strictObject({
   partId: id('Choose a part.'),
-  label: required(80, 'Name the component.'),
+  label: required(80, 'Name the component.', 'The component name'),
   partsMonths: months('the parts term'),
 });
 
@@ -277,7 +275,7 @@ export const createModelSchema = z
   .strictObject({
     familyId: id('Choose a product family.'),
     modelNumber: catalogCode('model number'),
-    name: required(120, 'Enter the model name.'),
+    name: required(120, 'Enter the model name.', 'The model name'),
     ...warrantyTerms,
     componentTerms: z.array(componentTermSchema).max(20).default([]),
   })
@@ -285,7 +283,7 @@ export const createModelSchema = z
 export const updateModelSchema = z
   .strictObject({
     familyId: id('Choose a product family.').optional(),
-    name: required(120, 'Enter the model name.').optional(),
+    name: required(120, 'Enter the model name.', 'The model name').optional(),
     partsMonths: warrantyTerms.partsMonths.optional(),
     laborMonths: warrantyTerms.laborMonths.optional(),
     capMonthsFromShip: warrantyTerms.capMonthsFromShip.optional(),
@@ -306,7 +304,7 @@ const readingSpecFields = {
     .string()
     .trim()
     .regex(/^[a-z][a-z0-9_]{1,39}$/, 'Use 2 to 40 lower-case letters, digits or underscores, starting with a letter.'),
-  label: required(120, 'Name the reading.'),
+  label: required(120, 'Name the reading.', 'The reading name'),
   unit: z.enum(readingUnits, 'Choose a unit.'),
   nominal: z.number('Enter the nominal value as a number.').finite(),
   tolerance: z.number('Enter the tolerance as a number.').positive('The tolerance must be more than 0.').finite(),
@@ -329,14 +327,14 @@ const cents = (label: string) => z.number(`Enter ${label}.`).int('Whole cents on
 
 export const createPartSchema = z.strictObject({
   partNumber: catalogCode('part number'),
-  description: required(200, 'Describe the part.'),
+  description: required(200, 'Describe the part.', 'The part description'),
   familyId: id().nullable().default(null),
   listPriceCents: cents('the list price'),
   returnRequired: z.boolean().default(false),
 });
 export const updatePartSchema = z
   .strictObject({
-    description: required(200, 'Describe the part.').optional(),
+    description: required(200, 'Describe the part.', 'The part description').optional(),
     familyId: id().nullable().optional(),
     returnRequired: z.boolean().optional(),
     active: z.boolean().optional(),
@@ -356,14 +354,14 @@ const hours = z.number('Enter hours as a number.').min(0.1, 'At least 0.1 hour.'
 export const createRepairCodeSchema = z.strictObject({
   code: catalogCode('repair code'),
   familyId: id('Choose a product family.'),
-  description: required(200, 'Describe the repair.'),
+  description: required(200, 'Describe the repair.', 'The repair description'),
   allowedHours: hours,
   requiredEvidence: z.array(z.enum(attachmentRoles)).max(attachmentRoles.length).default([]),
 });
 export const updateRepairCodeSchema = z
   .strictObject({
     familyId: id('Choose a product family.').optional(),
-    description: required(200, 'Describe the repair.').optional(),
+    description: required(200, 'Describe the repair.', 'The repair description').optional(),
     requiredEvidence: z.array(z.enum(attachmentRoles)).max(attachmentRoles.length).optional(),
     active: z.boolean().optional(),
     allowedHours: hours.optional(),

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { ValuationInput } from '../calculations/valuation';
 import { FLAG_CODES } from '../calculations/flags';
+import { multiLine, oneLine } from './text';
 
 export const claimStates = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
 export type ClaimState = (typeof claimStates)[number];
@@ -29,13 +30,15 @@ export const attachmentRoleLabels: Record<AttachmentRole, string> = {
 };
 
 const isoDate = z.iso.date('Use a date like 2026-03-31.');
-const text = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters.`);
+/** Human-entered text: NFC, trimmed, no control, text-direction or invisible characters (./text.ts). */
+const line = (max: number, label: string) => oneLine({ max, min: 0, label });
+const prose = (max: number, label: string) => multiLine({ max, min: 0, label });
 
 export const laborLineInputSchema = z.strictObject({
   repairCodeId: z.string().min(1, 'Choose a repair code.'),
   hoursWorked: z.number('Enter hours as a number.').min(0.1, 'At least 0.1 hour.').max(24, 'At most 24 hours on one line.'),
   overtime: z.boolean().default(false),
-  note: text(500).default(''),
+  note: line(500, 'The note').default(''),
 });
 
 export const travelInputSchema = z.strictObject({
@@ -57,13 +60,13 @@ export const readingInputSchema = z.strictObject({
 
 /** The fields an agency user may write on a draft or returned claim; nothing else is accepted. */
 export const claimDraftSchema = z.strictObject({
-  serial: text(60).optional(),
-  complaint: text(4000).optional(),
-  cause: text(4000).optional(),
-  correction: text(4000).optional(),
+  serial: line(60, 'The serial number').optional(),
+  complaint: prose(4000, 'The complaint').optional(),
+  cause: prose(4000, 'The cause').optional(),
+  correction: prose(4000, 'The correction').optional(),
   failureDate: isoDate.nullable().optional(),
   repairDate: isoDate.nullable().optional(),
-  preAuthorization: text(60).nullable().optional(),
+  preAuthorization: line(60, 'The pre-authorisation number').nullable().optional(),
   laborLines: z.array(laborLineInputSchema).max(20).optional(),
   travel: travelInputSchema.nullable().optional(),
   partLines: z.array(partLineInputSchema).max(40).optional(),
@@ -71,7 +74,7 @@ export const claimDraftSchema = z.strictObject({
 });
 export type ClaimDraftInput = z.infer<typeof claimDraftSchema>;
 
-export const createClaimSchema = claimDraftSchema.extend({ serial: text(60).min(1, 'Enter the serial number.') });
+export const createClaimSchema = claimDraftSchema.extend({ serial: oneLine({ max: 60, label: 'The serial number', required: 'Enter the serial number.' }) });
 
 /** Claim PATCH carries the version the user saw, so a stale edit answers 409. */
 export const updateClaimSchema = claimDraftSchema.extend({ version: z.number().int().min(1) });

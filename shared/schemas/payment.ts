@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { multiLine, oneLine } from './text';
 
 /**
  * Contracts of payment runs, part returns and the paid-claims export. Money is integer cents;
@@ -7,14 +8,8 @@ import { z } from 'zod';
 
 const isoDate = z.iso.date('Use a date like 2026-03-31.');
 const id = z.string().trim().min(1, 'Required.').max(64, 'Not a valid id.');
-const line = (label: string, max: number) =>
-  z
-    .string(`Enter the ${label}.`)
-    .trim()
-    .min(1, `Enter the ${label}.`)
-    .max(max, `Keep the ${label} under ${max} characters.`)
-    // One line of printable text: no control characters (tab, CR, LF, NUL...).
-    .regex(/^[^\p{Cc}]*$/u, `The ${label} must be one line of plain text.`);
+/** One line of plain text: NFC, trimmed, no control, text-direction or invisible characters (./text.ts). */
+const line = (label: string, max: number) => oneLine({ max, label: `The ${label}`, required: `Enter the ${label}.` });
 
 // ---- part returns ------------------------------------------------------------------------
 
@@ -51,7 +46,7 @@ export const receiptSchema = z.strictObject({
 export type ReceiptInput = z.infer<typeof receiptSchema>;
 
 export const waiverSchema = z.strictObject({
-  reason: z.string('Give a reason for waiving the return.').trim().min(3, 'Give a reason for waiving the return.').max(500, 'Keep the reason under 500 characters.'),
+  reason: multiLine({ max: 500, min: 3, label: 'The reason', required: 'Give a reason for waiving the return.' }),
 });
 export type WaiverInput = z.infer<typeof waiverSchema>;
 

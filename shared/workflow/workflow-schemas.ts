@@ -1,6 +1,7 @@
 /** Request contracts of the workflow endpoints, shared by the client forms and the server. */
 import { z } from 'zod';
 import { claimActions } from './claim-machine';
+import { multiLine, oneLine } from '../schemas/text';
 import type { ClaimAction } from '../permissions/ability';
 
 const version = z.number('Send the version you saw.').int().min(1);
@@ -9,18 +10,18 @@ const version = z.number('Send the version you saw.').int().min(1);
 export const transitionSchema = z.strictObject({
   type: z.enum(claimActions as [ClaimAction, ...ClaimAction[]], 'Unknown move.'),
   version,
-  reason: z.string().trim().max(60).nullable().optional(),
-  comment: z.string().trim().max(4000, 'Keep it under 4000 characters.').nullable().optional(),
+  reason: oneLine({ max: 60, min: 0, label: 'The reason' }).nullable().optional(),
+  comment: multiLine({ max: 4000, min: 0, label: 'The comment' }).nullable().optional(),
 });
 export type TransitionInput = z.infer<typeof transitionSchema>;
 
 /** POST /api/claims/:id/comments */
 export const commentSchema = z.strictObject({
-  body: z.string().trim().min(1, 'Write a comment.').max(4000, 'Keep it under 4000 characters.'),
+  body: multiLine({ max: 4000, label: 'The comment', required: 'Write a comment.' }),
 });
 export type CommentInput = z.infer<typeof commentSchema>;
 
-const reason = z.string().trim().max(500, 'Keep it under 500 characters.').nullable();
+const reason = oneLine({ max: 500, min: 0, label: 'The reason' }).nullable();
 
 /**
  * POST /api/claims/:id/adjustments: a reviewer's line decisions while the claim is in review.

@@ -112,7 +112,7 @@ export async function buildExportDataset(): Promise<ExportDataset> {
   const models = sqlite.prepare('select id from models').pluck().all() as string[];
   const sites = sqlite.prepare('select id from sites').pluck().all() as string[];
   const now = new Date().toISOString();
-  const insOrg = sqlite.prepare(`insert into organisations (id, kind, name, city, region, country, currency, active, created_at, updated_at) values (?, 'agency', ?, 'Bench City', 'KS', 'US', 'USD', 1, ?, ?)`);
+  const insOrg = sqlite.prepare(`insert into organisations (id, kind, name, name_key, city, region, country, currency, active, created_at, updated_at) values (?, 'agency', ?, fp_name_key(?), 'Bench City', 'KS', 'US', 'USD', 1, ?, ?)`);
   const insUser = sqlite.prepare(`insert into users (id, organisation_id, role, email, name, active, session_version, created_at, updated_at) values (?, ?, 'technician', ?, ?, 1, 1, ?, ?)`);
   const insUnit = sqlite.prepare(`insert into units (id, serial, model_id, revision, ship_date, install_date, site_id, created_at) values (?, ?, ?, 'B', '2024-01-10', '2024-02-01', ?, ?)`);
   const insClaim = sqlite.prepare(
@@ -132,7 +132,7 @@ export async function buildExportDataset(): Promise<ExportDataset> {
     for (let a = 0; a < AGENCIES; a++) {
       const id = `bx-agency-${a}`;
       const n = String(a + 1).padStart(2, '0');
-      insOrg.run(id, `Bench Export Agency ${n}`, now, now);
+      insOrg.run(id, `Bench Export Agency ${n}`, `Bench Export Agency ${n}`, now, now);
       const techs = [0, 1, 2].map((k) => {
         const tid = `bx-tech-${a}-${k}`;
         insUser.run(tid, id, `tech${k}@bench-export-${n}.test`, `Bench Technician ${n}-${k + 1}`, now, now);

@@ -77,7 +77,7 @@ describe('agencies and contract terms', () => {
   it('refuses a duplicate agency name and an admin address that already has an account, creating nothing', async () => {
     const before = t.db.select().from(organisations).all().length;
     const dup = await mfr.post('/api/admin/agencies').send({ name: 'lakeshore galley service', contactEmail: null, addressLine: null, city: null, region: null, postalCode: null, timeZone: 'America/Chicago', adminEmail: 'a@b.test' });
-    expect(dup.status).toBe(409);
+    expect(dup.status).toBe(400);
     expect(dup.body.error.fields.name).toBeTruthy();
     const taken = await mfr.post('/api/admin/agencies').send({ name: 'Ridgeback Range Repair', contactEmail: null, addressLine: null, city: null, region: null, postalCode: null, timeZone: 'America/Denver', adminEmail: demoAccounts.adminA });
     expect(taken.status).toBe(409);

@@ -1,4 +1,4 @@
-import { sqliteTable, text, integer, real, index } from 'drizzle-orm/sqlite-core';
+import { sqliteTable, text, integer, real, index, uniqueIndex } from 'drizzle-orm/sqlite-core';
 
 /** Manufacturer or service agency. Every tenant-owned row points at one of these. */
 export const organisations = sqliteTable(
@@ -7,6 +7,8 @@ export const organisations = sqliteTable(
     id: text('id').primaryKey(),
     kind: text('kind', { enum: ['manufacturer', 'agency'] }).notNull(),
     name: text('name').notNull(),
+    /** nameKey(name) from shared/schemas/text.ts: names are unique on the platform, compared case- and space-insensitively. */
+    nameKey: text('name_key').notNull(),
     contactEmail: text('contact_email'),
     addressLine: text('address_line'),
     city: text('city'),
@@ -21,7 +23,7 @@ export const organisations = sqliteTable(
     createdAt: text('created_at').notNull(),
     updatedAt: text('updated_at').notNull(),
   },
-  (t) => [index('organisations_kind_idx').on(t.kind)],
+  (t) => [index('organisations_kind_idx').on(t.kind), uniqueIndex('organisations_name_key_uq').on(t.nameKey)],
 );
 
 /** Contract terms between the manufacturer and one agency, in force from..to (inclusive). */

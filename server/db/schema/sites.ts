@@ -1,4 +1,5 @@
 import { sqliteTable, text, real, index, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { sql } from 'drizzle-orm';
 import { models } from './catalog';
 
 /** A restaurant where units are installed. */
@@ -29,10 +30,17 @@ export const units = sqliteTable(
     revision: text('revision').notNull(),
     shipDate: text('ship_date').notNull(),
     installDate: text('install_date'),
+    /** The manufacturer's registration of where the unit is installed; only the manufacturer's data writes it. An agency's knowledge of a site lives on its claims (claims.site_id). */
     siteId: text('site_id').references(() => sites.id),
     createdAt: text('created_at').notNull(),
   },
-  (t) => [uniqueIndex('units_serial_uq').on(t.serial), index('units_model_idx').on(t.modelId), index('units_site_idx').on(t.siteId)],
+  (t) => [
+    uniqueIndex('units_serial_uq').on(t.serial),
+    // The serial look-up ignores case: lower(serial) = lower(?) must not scan.
+    index('units_serial_lower_idx').on(sql`lower(${t.serial})`),
+    index('units_model_idx').on(t.modelId),
+    index('units_site_idx').on(t.siteId),
+  ],
 );
 
 export type Site = typeof sites.$inferSelect;

@@ -42,7 +42,7 @@ export const invitations = sqliteTable(
     revokedAt: text('revoked_at'),
     createdAt: text('created_at').notNull(),
   },
-  (t) => [uniqueIndex('invitations_token_uq').on(t.tokenHash), index('invitations_org_idx').on(t.organisationId)],
+  (t) => [uniqueIndex('invitations_token_uq').on(t.tokenHash), index('invitations_org_idx').on(t.organisationId), index('invitations_email_idx').on(t.email)],
 );
 
 export const passwordResets = sqliteTable(

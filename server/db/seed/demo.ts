@@ -63,6 +63,7 @@ import {
   type TermsSeed,
 } from './demo-data';
 import { settleSeededAmounts } from './settle';
+import { nameKey } from '@shared/schemas/text';
 
 /**
  * Every demo account signs in with this password. It is shorter than the 15-character
@@ -388,11 +389,12 @@ export function seedDemo(db: Db, opts: SeedOptions): SeedSummary {
   const manufacturerId = newId();
   const agencyId: Record<AgencyKey, string> = { harborview: newId(), prairie: newId() };
   const orgRows: (typeof organisations.$inferInsert)[] = [
-    { id: manufacturerId, kind: 'manufacturer', ...manufacturerSeed, createdAt: catalogCreated, updatedAt: catalogCreated },
+    { id: manufacturerId, kind: 'manufacturer', ...manufacturerSeed, nameKey: nameKey(manufacturerSeed.name), createdAt: catalogCreated, updatedAt: catalogCreated },
     ...(Object.keys(agencySeeds) as AgencyKey[]).map((k) => ({
       id: agencyId[k],
       kind: 'agency' as const,
       ...agencySeeds[k],
+      nameKey: nameKey(agencySeeds[k].name),
       createdAt: catalogCreated,
       updatedAt: catalogCreated,
     })),

@@ -5,7 +5,7 @@ import type { AgencyTerms } from '../../db/schema/organisations';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
-import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../../lib/errors';
+import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
 import { today } from '../../lib/clock';
 import { addDays } from '@shared/calculations/dates';
@@ -13,7 +13,7 @@ import type { AgencyDetail, AgencyListItem, ContractTermsItem, UpdateAgencyBody,
 import { createAgencySchema, createTermsSchema } from '@shared/schemas/admin';
 import type { z } from 'zod';
 import { resolveAddress } from '../agency/postal-code.service';
-import { updateOrganisationProfile } from '../agency/agency.service';
+import { checkAgencyName, isNameKeyConflict, nameTakenMessage, updateOrganisationProfile } from '../agency/agency.service';
 import { countOtherActive } from '../agency/agency.queries';
 import type { InvitationsService } from '../invitations/invitations.service';
 import { getAgencyDetail, getTerms, listAgencies, listTerms, overlappingTerms } from './agencies.queries';
@@ -48,15 +48,6 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
     if (!row) throw new NotFoundError('No such agency.');
     return row;
   }
-  function refuseDuplicateName(t: Db, name: string, exceptId?: string): void {
-    const same = t
-      .select({ id: organisations.id })
-      .from(organisations)
-      .where(and(eq(organisations.kind, 'agency'), sql`lower(${organisations.name}) = lower(${name})`))
-      .all()
-      .filter((r) => r.id !== exceptId);
-    if (same.length) throw new AppError(409, 'duplicate', 'An agency with this name already exists.', { name: 'An agency with this name already exists.' });
-  }
   const detail = (ctx: RequestContext, id: string) => getAgencyDetail(db, ctx.ability, id, today(clock), nowIso()) as AgencyDetail;
 
   return {
@@ -76,19 +67,25 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
     create(ctx: RequestContext, body: CreateAgency, ip: string): AgencyDetail {
       guard(ctx, 'Agency', 'create');
       const id = newId();
-      tx(db, (t) => {
-        refuseDuplicateName(t, body.name);
+      const write = () => tx(db, (t) => {
+        const key = checkAgencyName(t, body.name);
         const address = resolveAddress(
           { postalCode: null, city: null, region: null, country: 'US', latitude: null, longitude: null },
           { postalCode: body.postalCode, city: body.city, region: body.region, latitude: body.latitude ?? null, longitude: body.longitude ?? null },
         );
         const now = nowIso();
         t.insert(organisations)
-          .values({ id, kind: 'agency', name: body.name, contactEmail: body.contactEmail, addressLine: body.addressLine, timeZone: body.timeZone, ...address, active: true, createdAt: now, updatedAt: now })
+          .values({ id, kind: 'agency', name: body.name, nameKey: key, contactEmail: body.contactEmail, addressLine: body.addressLine, timeZone: body.timeZone, ...address, active: true, createdAt: now, updatedAt: now })
           .run();
         audit(t, ctx, 'agency.create', 'Agency', id, ip, { name: body.name, postalCode: address.postalCode, adminEmail: body.adminEmail });
         invitations.inviteIn(t, ctx, { organisationId: id, role: 'agency_admin', email: body.adminEmail }, ip);
       });
+      try {
+        write();
+      } catch (e) {
+        if (isNameKeyConflict(e)) throw new ValidationError('Some fields need attention.', { name: nameTakenMessage });
+        throw e;
+      }
       deps.outbox.kick();
       return detail(ctx, id);
     },
@@ -97,7 +94,6 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
       guard(ctx, 'Agency', 'update');
       tx(db, (t) => {
         requireAgency(t, id);
-        if (body.name) refuseDuplicateName(t, body.name, id);
         updateOrganisationProfile(t, deps, id, body, { actorId: ctx.user.id, ip });
       });
       return detail(ctx, id);

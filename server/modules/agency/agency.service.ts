@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, ne } from 'drizzle-orm';
 import { subject } from '@casl/ability';
 import { tx, type Db } from '../../db/client';
 import { attachments, certifications, organisations, productFamilies, users } from '../../db/schema/index';
@@ -17,6 +17,7 @@ import type {
 } from '@shared/schemas/admin';
 import { expiringCertifications, findVisibleCertification, getAgencyProfile, getCertificationItem, listCertifications } from './agency.queries';
 import { resolveAddress } from './postal-code.service';
+import { nameKey } from '@shared/schemas/text';
 
 function requireAgency(ctx: RequestContext): void {
   if (ctx.user.organisationKind !== 'agency') throw new ForbiddenError('This is for service agencies.');
@@ -136,6 +137,29 @@ export function createAgencyService(deps: AppDeps) {
   };
 }
 
+export const nameTakenMessage = 'Another service agency already uses this name (names are compared ignoring case and spaces). Choose a name that tells yours apart.';
+export const manufacturerNameMessage = 'This is the manufacturer’s name. A service agency cannot use it.';
+
+/**
+ * Refuses an agency name that another organisation holds, compared by nameKey (NFKC, case and
+ * spaces ignored): another agency's name, or any manufacturer's. 400 with the message on `name`.
+ */
+export function checkAgencyName(t: Db, name: string, exceptId?: string): string {
+  const key = nameKey(name);
+  const holder = t
+    .select({ kind: organisations.kind })
+    .from(organisations)
+    .where(exceptId ? and(eq(organisations.nameKey, key), ne(organisations.id, exceptId)) : eq(organisations.nameKey, key))
+    .get();
+  if (holder) throw new ValidationError('Some fields need attention.', { name: holder.kind === 'manufacturer' ? manufacturerNameMessage : nameTakenMessage });
+  return key;
+}
+
+/** The unique index on name_key is the last word when two writers race past the check. */
+export function isNameKeyConflict(e: unknown): boolean {
+  return e instanceof Error && (e as { code?: string }).code === 'SQLITE_CONSTRAINT_UNIQUE' && e.message.includes('organisations.name_key');
+}
+
 /** Writes a profile change of an agency (by its admin or the manufacturer) with its audit row. */
 export function updateOrganisationProfile(
   t: Db,
@@ -147,8 +171,10 @@ export function updateOrganisationProfile(
   const current = t.select().from(organisations).where(and(eq(organisations.id, organisationId), eq(organisations.kind, 'agency'))).get();
   if (!current) throw new NotFoundError('No such agency.');
   const address = resolveAddress(current, body);
+  const name = body.name ?? current.name;
   const next = {
-    name: body.name ?? current.name,
+    name,
+    nameKey: name === current.name ? current.nameKey : checkAgencyName(t, name, organisationId),
     contactEmail: body.contactEmail !== undefined ? body.contactEmail : current.contactEmail,
     addressLine: body.addressLine !== undefined ? body.addressLine : current.addressLine,
     timeZone: body.timeZone ?? current.timeZone,
@@ -158,9 +184,14 @@ export function updateOrganisationProfile(
   const changed: Record<string, unknown> = {};
   for (const k of Object.keys(next) as (keyof typeof next)[]) if (next[k] !== current[k]) changed[k] = { from: current[k], to: next[k] };
   if (Object.keys(changed).length === 0) return;
-  t.update(organisations)
-    .set({ ...next, updatedAt: deps.clock.now().toISOString() })
-    .where(eq(organisations.id, organisationId))
-    .run();
+  try {
+    t.update(organisations)
+      .set({ ...next, updatedAt: deps.clock.now().toISOString() })
+      .where(eq(organisations.id, organisationId))
+      .run();
+  } catch (e) {
+    if (isNameKeyConflict(e)) throw new ValidationError('Some fields need attention.', { name: nameTakenMessage });
+    throw e;
+  }
   writeAudit(t, deps.clock, { actorId: who.actorId, organisationId, action: 'agency.update', recordType: 'Agency', recordId: organisationId, outcome: 'success', ip: who.ip, detail: changed });
 }

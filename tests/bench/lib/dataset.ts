@@ -90,8 +90,8 @@ export function buildBenchDataset(opts: { claims?: number; agencies?: number } =
   const base = Date.parse('2024-01-01T00:00:00Z');
 
   const insOrg = sqlite.prepare(
-    `INSERT INTO organisations (id, kind, name, contact_email, city, region, country, latitude, longitude, time_zone, currency, active, created_at, updated_at)
-     VALUES (?, 'agency', ?, ?, ?, ?, 'US', ?, ?, 'America/Chicago', 'USD', 1, ?, ?)`,
+    `INSERT INTO organisations (id, kind, name, name_key, contact_email, city, region, country, latitude, longitude, time_zone, currency, active, created_at, updated_at)
+     VALUES (?, 'agency', ?, fp_name_key(?), ?, ?, ?, 'US', ?, ?, 'America/Chicago', 'USD', 1, ?, ?)`,
   );
   const insTerms = sqlite.prepare(
     `INSERT INTO agency_terms (id, agency_id, effective_from, effective_to, labor_rate_cents, travel_rate_cents, mileage_rate_cents, max_round_trip_miles, max_travel_hours, parts_discount_bps, parts_handling_bps, overtime_multiplier, filing_window_days, created_at)
@@ -149,7 +149,7 @@ export function buildBenchDataset(opts: { claims?: number; agencies?: number } =
     for (let a = 0; a < agencyCount; a++) {
       const id = nextId.org();
       const n = String(a + 1).padStart(2, '0');
-      insOrg.run(id, `Bench Service Agency ${n}`, `office@bench-${n}.test`, 'Bench City', 'KS', 37 + rnd.real(0, 2), -97 - rnd.real(0, 2), now, now);
+      insOrg.run(id, `Bench Service Agency ${n}`, `Bench Service Agency ${n}`, `office@bench-${n}.test`, 'Bench City', 'KS', 37 + rnd.real(0, 2), -97 - rnd.real(0, 2), now, now);
       insTerms.run(nextId.terms(), id, 9500 + a * 10, 6500, now);
       const adminId = nextId.user();
       const email = `admin@bench-${n}.test`;
