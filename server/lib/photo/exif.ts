@@ -46,10 +46,10 @@ function str(v: unknown): string | null {
  * so values are read unrevived (`reviveValues: false`) and the raw string and offset are kept.
  * Unreadable metadata is no metadata, never an error.
  */
-export async function readPhotoMetadata(buf: Buffer): Promise<PhotoMetadata> {
+export async function readPhotoMetadata(input: Buffer | string): Promise<PhotoMetadata> {
   let e: Record<string, unknown> | undefined;
   try {
-    e = await exifr.parse(buf, {
+    e = await exifr.parse(input, {
       tiff: true,
       exif: true,
       gps: true,

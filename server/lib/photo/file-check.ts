@@ -1,6 +1,8 @@
-import { fileTypeFromBuffer } from 'file-type';
+import { readFile } from 'node:fs/promises';
+import { fileTypeFromFile } from 'file-type';
 import { parse } from 'csv-parse/sync';
 import { AppError, UnsupportedMediaTypeError, ValidationError } from '../errors';
+import type { ActiveContentFinding } from './active-content';
 import { findActiveContent } from './active-content';
 import { extensionOf } from './file-name';
 
@@ -67,24 +69,32 @@ export function checkStrictCsv(buf: Buffer): string {
   return text;
 }
 
+/** 415 with a stable reason code in `fields.reason` (e.g. `pdf_javascript`, `jpeg_data_after_end`). */
+export class ActiveContentError extends AppError {
+  constructor(name: string, finding: ActiveContentFinding) {
+    super(415, 'active_content', `"${name}" was refused: ${finding.reason}`, { reason: finding.code });
+  }
+}
+
 /**
- * Decides what a file is from its bytes, never from the client's Content-Type, and requires
- * the name's extension to agree. Throws 400 for an empty file, 415 for anything not allowed.
+ * Decides what the file at `path` is from its bytes, never from the client's Content-Type, and
+ * requires the name's extension to agree. Throws 400 for an empty file, 415 for anything not
+ * allowed. The file is read from disk in pieces (a CSV, small, is read whole).
  */
-export async function checkFileType(buf: Buffer, name: string): Promise<AllowedType> {
-  if (buf.length === 0) throw new ValidationError(`"${name}" is empty (0 bytes).`, { files: 'The file is empty.' });
+export async function checkFileType(path: string, size: number, name: string): Promise<AllowedType> {
+  if (size === 0) throw new ValidationError(`"${name}" is empty (0 bytes).`, { files: 'The file is empty.' });
   const ext = extensionOf(name);
   const claimed = kindForExtension(ext);
   if (!claimed) {
     throw new UnsupportedMediaTypeError(`"${name}": files ending in ${ext ? `.${ext}` : 'no extension'} are not accepted. ${ACCEPTED_TEXT}`);
   }
-  const detected = await fileTypeFromBuffer(buf);
+  const detected = await fileTypeFromFile(path);
   let kind: FileKind;
   if (claimed === 'csv') {
     if (detected) {
       throw new UnsupportedMediaTypeError(`"${name}" is named .csv but its content is ${detected.mime}.`);
     }
-    checkStrictCsv(buf);
+    checkStrictCsv(await readFile(path));
     kind = 'csv';
   } else {
     const actual = detected ? kindForDetected(detected.ext, detected.mime) : null;
@@ -97,8 +107,8 @@ export async function checkFileType(buf: Buffer, name: string): Promise<AllowedT
     }
     kind = actual;
   }
-  const finding = findActiveContent(kind, buf);
-  if (finding) throw new UnsupportedMediaTypeError(`"${name}" was refused: ${finding.reason}`);
+  const finding = await findActiveContent(kind, path);
+  if (finding) throw new ActiveContentError(name, finding);
   const a = ALLOWED[kind];
   return { kind, ext: kind, contentType: a.contentType, isImage: a.isImage };
 }

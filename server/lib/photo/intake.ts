@@ -1,9 +1,23 @@
+import { createReadStream } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { stat } from 'node:fs/promises';
+import { pipeline } from 'node:stream/promises';
 import sharp from 'sharp';
 import { PayloadTooLargeError, UnsupportedMediaTypeError } from '../errors';
 import { checkFileType, type AllowedType } from './file-check';
 import { readPhotoMetadata, noMetadata, type PhotoMetadata } from './exif';
-import { perceptualHash, sha256Hex } from './hashes';
+import { perceptualHash } from './hashes';
 import { THUMBNAIL_SIZE } from './thumbnail';
+
+// libvips' operation cache would keep decoded pixels of recent uploads in memory: uploads are
+// never decoded twice, so it buys nothing and costs tens of MB per large photo.
+sharp.cache(false);
+
+async function sha256OfFile(path: string): Promise<string> {
+  const h = createHash('sha256');
+  await pipeline(createReadStream(path, { highWaterMark: 1 << 20 }), h);
+  return h.digest('hex');
+}
 
 /** Decoding bombs stop here: 100 megapixels covers every phone camera's full-size photo. */
 export const MAX_IMAGE_PIXELS = 100_000_000;
@@ -29,14 +43,27 @@ function isPixelLimit(e: unknown): boolean {
 /**
  * Everything the server learns from one file before anything is stored: type by magic bytes
  * (agreeing with the name), SHA-256, EXIF capture time and GPS, an auto-rotated thumbnail with
- * metadata stripped, and the perceptual hash of the same pixels. Throws a 4xx error for a file
+ * metadata stripped, and the perceptual hash of the same pixels. Everything is read from the
+ * file on disk (a Buffer, from tests and the bench, is written to a temporary file first). Throws a 4xx error for a file
  * that is refused.
  */
-export async function intakeFile(buf: Buffer, name: string): Promise<IntakeResult> {
+export async function intakeFile(input: string | Buffer, name: string): Promise<IntakeResult> {
+  if (Buffer.isBuffer(input)) {
+    const { bufferToTempFile, removeFile } = await import('../storage/upload-temp');
+    const { tmpdir } = await import('node:os');
+    const path = await bufferToTempFile(tmpdir(), input);
+    try {
+      return await intakeFile(path, name);
+    } finally {
+      await removeFile(path);
+    }
+  }
+  const path = input;
   const t0 = performance.now();
-  const type = await checkFileType(buf, name);
+  const { size } = await stat(path);
+  const type = await checkFileType(path, size, name);
   const t1 = performance.now();
-  const sha256 = sha256Hex(buf);
+  const sha256 = await sha256OfFile(path);
   let metadata: PhotoMetadata = { ...noMetadata };
   let thumbnail: Buffer | null = null;
   let phash: string | null = null;
@@ -48,11 +75,11 @@ export async function intakeFile(buf: Buffer, name: string): Promise<IntakeResul
 
   if (type.isImage) {
     const e0 = performance.now();
-    metadata = await readPhotoMetadata(buf);
+    metadata = await readPhotoMetadata(path);
     tExif = performance.now() - e0;
     const th0 = performance.now();
     try {
-      const { data, info } = await sharp(buf, { limitInputPixels: MAX_IMAGE_PIXELS, failOn: 'truncated' })
+      const { data, info } = await sharp(path, { limitInputPixels: MAX_IMAGE_PIXELS, failOn: 'truncated' })
         .rotate()
         .resize(THUMBNAIL_SIZE, THUMBNAIL_SIZE, { fit: 'inside', withoutEnlargement: true })
         .removeAlpha()
@@ -64,7 +91,7 @@ export async function intakeFile(buf: Buffer, name: string): Promise<IntakeResul
       const h0 = performance.now();
       phash = await perceptualHash(data, raw);
       tHash += performance.now() - h0;
-      const meta = await sharp(buf, { limitInputPixels: MAX_IMAGE_PIXELS }).metadata();
+      const meta = await sharp(path, { limitInputPixels: MAX_IMAGE_PIXELS }).metadata();
       const turned = (meta.orientation ?? 1) >= 5;
       width = (turned ? meta.height : meta.width) ?? null;
       height = (turned ? meta.width : meta.height) ?? null;
@@ -80,7 +107,7 @@ export async function intakeFile(buf: Buffer, name: string): Promise<IntakeResul
   }
   return {
     type,
-    sizeBytes: buf.length,
+    sizeBytes: size,
     sha256,
     perceptualHash: phash,
     width,

@@ -2,6 +2,7 @@ import type { Env } from '../../env';
 import { LocalStorage } from './local-storage';
 import { S3Storage } from './s3-storage';
 import type { Storage } from './storage';
+import { uploadTempDir } from './upload-temp';
 
 
 type StorageEnv = Pick<Env, 'STORAGE_DRIVER' | 'STORAGE_DIR' | 'S3_ENDPOINT' | 'S3_BUCKET' | 'S3_REGION' | 'S3_ACCESS_KEY_ID' | 'S3_SECRET_ACCESS_KEY'>;
@@ -16,6 +17,7 @@ export function createStorage(env: StorageEnv): Storage {
       region: env.S3_REGION,
       accessKeyId: env.S3_ACCESS_KEY_ID,
       secretAccessKey: env.S3_SECRET_ACCESS_KEY,
+      tempDir: uploadTempDir(env),
     });
   }
   return new LocalStorage(env.STORAGE_DIR);

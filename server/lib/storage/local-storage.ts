@@ -1,5 +1,5 @@
 import { createReadStream } from 'node:fs';
-import { mkdir, open, readdir, readFile, rename, rm, stat, unlink } from 'node:fs/promises';
+import { copyFile, mkdir, open, readdir, readFile, rename, rm, stat, unlink } from 'node:fs/promises';
 import { randomUUID } from 'node:crypto';
 import { dirname, join, relative, resolve, sep } from 'node:path';
 import { assertKey, type ObjectInfo, type Storage } from './storage';
@@ -61,6 +61,43 @@ export class LocalStorage implements Storage {
     } catch (e) {
       await unlink(tmp).catch(() => undefined);
       throw e;
+    }
+    await fsyncDir(dirname(final));
+  }
+
+  /**
+   * The upload's temporary file is synced and renamed into place (no copy, no memory); across
+   * file systems it is copied to a temporary name first, synced and renamed.
+   */
+  async putFile(key: string, path: string, _contentType?: string): Promise<void> {
+    const final = this.path(key);
+    await mkdir(dirname(final), { recursive: true });
+    const src = await open(path, 'r+');
+    try {
+      await src.sync();
+    } finally {
+      await src.close();
+    }
+    try {
+      await rename(path, final);
+    } catch (e) {
+      if ((e as { code?: string }).code !== 'EXDEV') throw e;
+      const tmpDir = join(this.root, TEMP_DIR);
+      await mkdir(tmpDir, { recursive: true });
+      const tmp = join(tmpDir, `${randomUUID()}.part`);
+      try {
+        await copyFile(path, tmp);
+        const fh = await open(tmp, 'r+');
+        try {
+          await fh.sync();
+        } finally {
+          await fh.close();
+        }
+        await rename(tmp, final);
+      } catch (err) {
+        await unlink(tmp).catch(() => undefined);
+        throw err;
+      }
     }
     await fsyncDir(dirname(final));
   }

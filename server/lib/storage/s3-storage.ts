@@ -1,4 +1,7 @@
 import type { S3Client, S3ClientConfig } from '@aws-sdk/client-s3';
+import { createReadStream } from 'node:fs';
+import { readdir, rm, stat } from 'node:fs/promises';
+import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import { assertKey, type ObjectInfo, type Storage } from './storage';
 
@@ -10,6 +13,8 @@ export interface S3StorageOptions {
   secretAccessKey?: string;
   /** Path-style addressing (http://host/bucket/key), which most S3-compatible servers want. */
   forcePathStyle?: boolean;
+  /** The local folder where uploads are received before they go to the bucket (swept at start-up). */
+  tempDir?: string;
 }
 
 function isNotFound(e: unknown): boolean {
@@ -31,6 +36,7 @@ export class S3Storage implements Storage {
   readonly driver = 's3' as const;
   readonly bucket: string;
   private readonly config: S3ClientConfig;
+  private readonly tempDir: string | undefined;
   private clientPromise: Promise<{ client: S3Client; sdk: Sdk }> | null = null;
 
   constructor(opts: S3StorageOptions) {
@@ -48,6 +54,7 @@ export class S3Storage implements Storage {
     }
     this.config = config;
     this.bucket = opts.bucket;
+    this.tempDir = opts.tempDir;
   }
 
   private connect() {
@@ -60,6 +67,19 @@ export class S3Storage implements Storage {
     await client.send(
       new m.PutObjectCommand({ Bucket: this.bucket, Key: key, Body: data, ContentType: contentType, ContentLength: data.length }),
     );
+  }
+
+  /** Streams the file from disk to the bucket with its length, never whole in memory. */
+  async putFile(key: string, path: string, contentType: string): Promise<void> {
+    assertKey(key);
+    const { client, sdk: m } = await this.connect();
+    const { size } = await stat(path);
+    const body = createReadStream(path);
+    try {
+      await client.send(new m.PutObjectCommand({ Bucket: this.bucket, Key: key, Body: body, ContentType: contentType, ContentLength: size }));
+    } finally {
+      body.destroy();
+    }
   }
 
   async read(key: string): Promise<Buffer | null> {
@@ -121,7 +141,25 @@ export class S3Storage implements Storage {
     } while (token);
   }
 
-  async cleanTemp(): Promise<string[]> {
-    return [];
+  /** Objects need no temporary names; only the local upload folder has leftovers to remove. */
+  async cleanTemp(olderThan: Date): Promise<string[]> {
+    const removed: string[] = [];
+    if (!this.tempDir) return removed;
+    let names: string[];
+    try {
+      names = await readdir(this.tempDir);
+    } catch (e) {
+      if ((e as { code?: string }).code === 'ENOENT') return removed;
+      throw e;
+    }
+    for (const name of names) {
+      const p = join(this.tempDir, name);
+      const s = await stat(p).catch(() => null);
+      if (s && s.mtime <= olderThan) {
+        await rm(p, { force: true, recursive: true });
+        removed.push(`upload-temp/${name}`);
+      }
+    }
+    return removed;
   }
 }

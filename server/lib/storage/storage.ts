@@ -15,6 +15,13 @@ export interface ObjectInfo {
 export interface Storage {
   readonly driver: 'local' | 's3';
   put(key: string, data: Buffer, contentType: string): Promise<void>;
+  /**
+   * Stores the file at `path` (a temporary upload on the local disk) under the key, with the
+   * same all-or-nothing promise as `put`, without reading it into memory. The source file may
+   * be moved away by this call (the local driver renames it into place); removing a missing
+   * source afterwards is the caller's cleanup and must not be an error.
+   */
+  putFile(key: string, path: string, contentType: string): Promise<void>;
   /** The whole object, or null when there is none under the key. */
   read(key: string): Promise<Buffer | null>;
   /** A stream of the object and its size, or null when there is none. */

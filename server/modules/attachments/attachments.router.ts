@@ -7,6 +7,7 @@ import { clientAddress } from '../../middleware/rate-limit';
 import { NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
 import { writeAudit } from '../../lib/audit';
 import { storageFor } from '../../lib/storage/create-storage';
+import { removeTempFiles, tempFileStorage, uploadTempDir } from '../../lib/storage/upload-temp';
 import type { Storage } from '../../lib/storage/storage';
 import { checkOriginalName, contentDisposition, extensionOf } from '../../lib/photo/file-name';
 import { ALLOWED } from '../../lib/photo/file-check';
@@ -36,6 +37,9 @@ export function isMalformedMultipart(e: unknown): boolean {
 }
 
 function multerError(e: unknown, limits: UploadLimits): unknown {
+  if (e instanceof Error && /^Request aborted$|^Request closed$/i.test(e.message)) {
+    return new ValidationError('The upload was interrupted before it was complete.');
+  }
   if (isMalformedMultipart(e)) {
     return new ValidationError('The upload is malformed: a part header could not be read. File names with control characters (NUL, CR or LF) are refused.');
   }
@@ -58,10 +62,13 @@ function multerError(e: unknown, limits: UploadLimits): unknown {
   }
 }
 
-/** Reads the multipart body into memory under fixed limits; maps every failure to a clear 4xx. */
-function readMultipart(limits: UploadLimits, fileField: string, maxFiles: number) {
+/**
+ * Streams the multipart body to temporary files under fixed limits (never whole into memory);
+ * maps every failure to a clear 4xx. The caller removes the files with `removeTempFiles(req)`.
+ */
+function readMultipart(limits: UploadLimits, fileField: string, maxFiles: number, tempDir: string) {
   const parser = multer({
-    storage: multer.memoryStorage(),
+    storage: tempFileStorage(tempDir),
     preservePath: true,
     defParamCharset: 'utf8',
     limits: {
@@ -124,7 +131,7 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
   const storage = opts.storage ?? storageFor(deps.env);
   const service = createAttachmentsService(deps, storage, opts.limits);
   const { limits } = service;
-  const parseUpload = readMultipart(limits, 'files', limits.maxFilesPerRequest);
+  const parseUpload = readMultipart(limits, 'files', limits.maxFilesPerRequest, uploadTempDir(deps.env));
   const r = Router();
 
   const validId: RequestHandler = (req, _res, next) => {
@@ -160,7 +167,7 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
       const files = await parseUpload(req, res);
       if (files.length === 0) throw new ValidationError('Attach at least one file in the field "files".', { files: 'No file was sent.' });
       const roles = rolesFor(req.body ?? {}, files.length);
-      const incoming: IncomingFile[] = files.map((f, i) => ({ originalName: checkOriginalName(f.originalname), buffer: f.buffer, role: roles[i] }));
+      const incoming: IncomingFile[] = files.map((f, i) => ({ originalName: checkOriginalName(f.originalname), path: f.path, role: roles[i] }));
       const views = await service.upload(ctx, claimId, incoming, ip);
       const flags = evidenceFlags(deps.db, claimId, { revealOtherAgencies: false }).filter((f) => views.some((v) => v.id === f.attachmentId));
       res.status(201).json({ attachments: views, flags: flags.map(({ otherClaimId: _o, ...f }) => f) });
@@ -168,6 +175,8 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
       service.auditFailure(ctx, claimId, e, ip);
       if (!req.readableEnded) req.resume();
       throw e;
+    } finally {
+      await removeTempFiles(req);
     }
   });
 

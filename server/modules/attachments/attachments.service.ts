@@ -1,3 +1,4 @@
+import { stat } from 'node:fs/promises';
 import { and, eq } from 'drizzle-orm';
 import { subject } from '@casl/ability';
 import type { Db } from '../../db/client';
@@ -10,6 +11,7 @@ import { newId } from '../../lib/ids';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, PayloadTooLargeError } from '../../lib/errors';
 import type { Storage } from '../../lib/storage/storage';
 import { attachmentKey, thumbnailKey } from '../../lib/storage/keys';
+import { bufferToTempFile, removeFile, uploadTempDir } from '../../lib/storage/upload-temp';
 import { intakeFile, type IntakeResult } from '../../lib/photo/intake';
 import { ALLOWED } from '../../lib/photo/file-check';
 import { isFlagCode, FLAG_INFO } from '@shared/calculations/flags';
@@ -54,11 +56,8 @@ export function formatBytes(n: number): string {
   return `${n} bytes`;
 }
 
-export interface IncomingFile {
-  originalName: string;
-  buffer: Buffer;
-  role: AttachmentRole;
-}
+/** A received file: a temporary file on disk (uploads) or a small buffer (a readings sheet). */
+export type IncomingFile = { originalName: string; role: AttachmentRole } & ({ path: string; buffer?: undefined } | { buffer: Buffer; path?: undefined });
 
 const EDITABLE = new Set(['draft', 'returned']);
 
@@ -164,19 +163,45 @@ export function createAttachmentsService(deps: AppDeps, storage: Storage, limits
    */
   async function upload(ctx: RequestContext, claimId: string, files: IncomingFile[], ip: string | null, opts: UploadOptions = {}): Promise<AttachmentView[]> {
     const claim = uploadableClaim(ctx, claimId, opts.action === 'readings.import' ? 'update' : 'upload');
-    const total = files.reduce((n, f) => n + f.buffer.length, 0);
+    const made: string[] = [];
+    try {
+      const paths: string[] = [];
+      for (const f of files) {
+        if (f.path !== undefined) paths.push(f.path);
+        else {
+          const p = await bufferToTempFile(uploadTempDir(deps.env), f.buffer);
+          made.push(p);
+          paths.push(p);
+        }
+      }
+      const sizes = await Promise.all(paths.map(async (p) => (await stat(p)).size));
+      return await uploadFromDisk(ctx, claim, files, paths, sizes.reduce((a, b) => a + b, 0), ip, opts);
+    } finally {
+      await Promise.all(made.map((p) => removeFile(p).catch(() => undefined)));
+    }
+  }
+
+  async function uploadFromDisk(
+    ctx: RequestContext,
+    claim: Claim,
+    files: IncomingFile[],
+    paths: string[],
+    total: number,
+    ip: string | null,
+    opts: UploadOptions,
+  ): Promise<AttachmentView[]> {
     checkQuota(db, claim, files.length, total);
-    const taken: Array<{ file: IncomingFile; intake: IntakeResult; id: string }> = [];
-    for (const file of files) {
-      const intake = await intakeFile(file.buffer, file.originalName);
-      taken.push({ file, intake, id: newId() });
+    const taken: Array<{ file: IncomingFile; path: string; intake: IntakeResult; id: string }> = [];
+    for (const [i, file] of files.entries()) {
+      const intake = await intakeFile(paths[i], file.originalName);
+      taken.push({ file, path: paths[i], intake, id: newId() });
     }
     const written: string[] = [];
     const rows: Attachment[] = [];
     try {
-      for (const { file, intake, id } of taken) {
+      for (const { file, path, intake, id } of taken) {
         const key = attachmentKey(claim.agencyId, claim.id, id, intake.type.ext);
-        await storage.put(key, file.buffer, intake.type.contentType);
+        await storage.putFile(key, path, intake.type.contentType);
         written.push(key);
         let thumbKey: string | null = null;
         if (intake.thumbnail) {
