@@ -12,6 +12,7 @@ import { authenticate } from './middleware/authenticate';
 import { csrfGuard, noStore, securityHeaders } from './middleware/security';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
 import { mountApi } from './routes';
+import { idempotency } from './middleware/idempotency';
 
 export interface CreateAppOptions {
   db: Db;
@@ -56,6 +57,7 @@ export function createApp(opts: CreateAppOptions): App {
   api.use(express.json({ limit: '256kb', strict: true }));
   api.use(cookieParser());
   api.use(authenticate({ db: deps.db, tokens: deps.tokens, clock, secureCookies: deps.secureCookies }));
+  api.use(idempotency({ db: deps.db, clock }));
   mountApi(api, deps);
   api.use(apiNotFound);
   app.use('/api', api);

@@ -31,6 +31,8 @@ export interface RequestOptions {
   /** Appended as search params; empty, null and undefined values are left out. */
   query?: Record<string, QueryValue>;
   signal?: AbortSignal;
+  /** Sent as the Idempotency-Key header: one key per intended action, the same on a retry. */
+  idempotencyKey?: string;
 }
 
 const fallbackMessages: Record<number, string> = {
@@ -99,9 +101,10 @@ async function toApiError(response: Response): Promise<ApiError> {
  * answer that is not ok thrown as an ApiError carrying status, code, message and fields.
  */
 export async function apiRequest<T>(path: string, options: RequestOptions = {}): Promise<T> {
-  const { method = 'GET', body, query, signal } = options;
+  const { method = 'GET', body, query, signal, idempotencyKey } = options;
   const headers: Record<string, string> = { Accept: 'application/json' };
   if (body !== undefined) headers['Content-Type'] = 'application/json';
+  if (idempotencyKey) headers['Idempotency-Key'] = `"${idempotencyKey}"`;
   let response: Response;
   try {
     response = await globalThis.fetch(buildUrl(path, query), {
@@ -128,7 +131,7 @@ export async function apiRequest<T>(path: string, options: RequestOptions = {}):
 
 export const api = {
   get: <T>(path: string, query?: Record<string, QueryValue>, signal?: AbortSignal) => apiRequest<T>(path, { query, signal }),
-  post: <T>(path: string, body?: unknown) => apiRequest<T>(path, { method: 'POST', body }),
+  post: <T>(path: string, body?: unknown, opts: { idempotencyKey?: string } = {}) => apiRequest<T>(path, { method: 'POST', body, ...opts }),
   patch: <T>(path: string, body?: unknown) => apiRequest<T>(path, { method: 'PATCH', body }),
   delete: <T>(path: string) => apiRequest<T>(path, { method: 'DELETE' }),
 };

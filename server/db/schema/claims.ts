@@ -44,6 +44,10 @@ export const claims = sqliteTable(
     reviewerId: text('reviewer_id').references(() => users.id),
     decidedAt: text('decided_at'),
     decidedBy: text('decided_by').references(() => users.id),
+    /** A first approval above the reviewer's limit, waiting for a second reviewer to confirm. */
+    firstApprovedBy: text('first_approved_by').references(() => users.id),
+    firstApprovedAt: text('first_approved_at'),
+    firstApprovedCents: integer('first_approved_cents'),
     paidAt: text('paid_at'),
     createdAt: text('created_at').notNull(),
     updatedAt: text('updated_at').notNull(),
@@ -172,6 +176,10 @@ export const attachments = sqliteTable(
       .notNull()
       .references(() => users.id),
     createdAt: text('created_at').notNull(),
+    /** A removal after filing: the file stays, marked retracted, with the agency's reason. */
+    retractedAt: text('retracted_at'),
+    retractedBy: text('retracted_by').references(() => users.id),
+    retractionReason: text('retraction_reason'),
   },
   (t) => [
     index('attachments_claim_idx').on(t.claimId),

@@ -7,3 +7,5 @@ export * from './claims';
 export * from './payments';
 export * from './system';
 export * from './catalog-history';
+export * from './idempotency';
+export * from './approval-limits';

@@ -211,6 +211,7 @@ export function createAttachmentsService(deps: AppDeps, storage: Storage, limits
         }
         rows.push({
           id,
+          retractedAt: null, retractedBy: null, retractionReason: null,
           claimId: claim.id,
           organisationId: claim.agencyId,
           role: file.role,

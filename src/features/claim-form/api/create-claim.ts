@@ -6,9 +6,12 @@ import { claimFormKeys } from './claim-form-keys';
 
 export type CreateClaimBody = z.input<typeof createClaimSchema>;
 
-/** POST /api/claims: a draft for the unit with this serial, in the session's agency. */
-export function createClaim(body: CreateClaimBody): Promise<ClaimDetail> {
-  return api.post<ClaimDetail>('/api/claims', body);
+/**
+ * POST /api/claims: a draft for the unit with this serial, in the session's agency. The
+ * idempotency key names the intended action, so a double click or a retry makes one draft.
+ */
+export function createClaim({ body, idempotencyKey }: { body: CreateClaimBody; idempotencyKey: string }): Promise<ClaimDetail> {
+  return api.post<ClaimDetail>('/api/claims', body, { idempotencyKey });
 }
 
 export function useCreateClaim() {

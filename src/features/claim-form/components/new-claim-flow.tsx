@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import type { ClaimDetail } from '@shared/schemas/claim';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -6,6 +6,7 @@ import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Input } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
 import { errorMessage, isApiError } from '@/lib/api-client';
+import { newIdempotencyKey } from '@/lib/idempotency-key';
 import { useCreateClaim } from '../api/create-claim';
 import { useUnitLookup } from '../api/lookup-unit';
 import { useDebouncedValue } from '../hooks/use-debounced-value';
@@ -32,9 +33,22 @@ export function NewClaimFlow({ onCreated }: { onCreated: (claim: ClaimDetail) =>
   const found = lookup.data && !lookup.isError ? lookup.data : null;
   const serialError = isApiError(create.error, 400) ? create.error.fields?.serial : undefined;
 
+  // one key per intended action: the same for every click on the same unit and date, new after success
+  const intent = useRef<{ what: string; key: string } | null>(null);
   const start = () => {
-    if (!found) return;
-    create.mutate({ serial: found.unit.serial, ...(on ? { failureDate: on } : {}) }, { onSuccess: onCreated });
+    if (!found || create.isPending) return;
+    const body = { serial: found.unit.serial, ...(on ? { failureDate: on } : {}) };
+    const what = JSON.stringify(body);
+    if (intent.current?.what !== what) intent.current = { what, key: newIdempotencyKey() };
+    create.mutate(
+      { body, idempotencyKey: intent.current.key },
+      {
+        onSuccess: (claim) => {
+          intent.current = null;
+          onCreated(claim);
+        },
+      },
+    );
   };
 
   return (
