@@ -1,7 +1,7 @@
 import express, { type Express, type RequestHandler } from 'express';
 import cookieParser from 'cookie-parser';
 import type { Db } from './db/client';
-import type { Env } from './env';
+import { modeOf, type Env } from './env';
 import { systemClock, type Clock } from './lib/clock';
 import { OutboxDispatcher } from './lib/mail/outbox';
 import type { Mailer } from './lib/mail/mailer';
@@ -9,7 +9,7 @@ import type { MailSink } from './lib/mail/sink';
 import { SessionTokens } from './lib/session';
 import type { AppDeps } from './lib/deps';
 import { authenticate } from './middleware/authenticate';
-import { csrfGuard, noStore, securityHeaders } from './middleware/security';
+import { csrfGuard, hostAllowList, localMailboxOnly, noStore, securityHeaders, siteNames } from './middleware/security';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
 import { mountApi } from './routes';
 import { idempotency } from './middleware/idempotency';
@@ -50,10 +50,16 @@ export function createApp(opts: CreateAppOptions): App {
   app.set('trust proxy', opts.env.TRUST_PROXY ? 1 : false);
   app.set('query parser', 'simple');
   app.use(securityHeaders({ dev: opts.env.NODE_ENV === 'development' }));
+  // Before any route, the static client and the mailbox: a foreign Host is 421 (DNS rebinding).
+  const demo = modeOf(opts.env) === 'demo';
+  const names = siteNames({ publicUrl: opts.env.PUBLIC_URL, port: opts.env.PORT, demo });
+  app.use(hostAllowList(names));
+  // The demo mailbox (page and API) answers local requests only, and nobody in deployment mode.
+  app.use(localMailboxOnly({ enabled: demo && deps.sink !== null }));
 
   const api = express.Router();
   api.use(noStore);
-  api.use(csrfGuard(new URL(opts.env.PUBLIC_URL).origin));
+  api.use(csrfGuard(names.origins));
   api.use(express.json({ limit: '256kb', strict: true }));
   api.use(cookieParser());
   api.use(authenticate({ db: deps.db, tokens: deps.tokens, clock, secureCookies: deps.secureCookies }));

@@ -1,11 +1,29 @@
 import { z } from 'zod';
+import { isPublishedSecret } from './lib/published-secrets';
+import { loadSecrets, type SecretName } from './lib/secrets-file';
 
 const bool = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1');
 
-/** Every setting has a default that runs out of the box on one machine. */
-export const envSchema = z.object({
+function secret(name: SecretName, min: number) {
+  return z
+    .string()
+    .min(min, `${name} must be at least ${min} characters (unset it to have a random one generated into the data folder)`)
+    .refine((v) => !isPublishedSecret(v), `${name} is a value that stands in the Fieldproof source, which anyone can read; set a random one (e.g. \`openssl rand -base64 32\`) or unset it to have one generated`);
+}
+
+/** The names a loopback-only server may be bound to. */
+export function isLoopbackHost(host: string): boolean {
+  const h = host.trim().toLowerCase().replace(/^\[(.*)\]$/, '$1');
+  return h === 'localhost' || h === '::1' || /^127(\.\d{1,3}){3}$/.test(h) || /^::ffff:127(\.\d{1,3}){3}$/.test(h);
+}
+
+/**
+ * Every setting has a default that runs out of the box on one machine. Two modes follow from
+ * SMTP_URL: unset is the demo (local mail sink and mailbox, loopback only), set is a deployment.
+ */
+const baseSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().min(1).default('127.0.0.1'),
@@ -13,8 +31,9 @@ export const envSchema = z.object({
   PUBLIC_URL: z.url().optional(),
   DATABASE_PATH: z.string().min(1).default('./data/fieldproof.sqlite'),
   STORAGE_DIR: z.string().min(1).default('./data/files'),
-  SESSION_SECRET: z.string().min(32, 'SESSION_SECRET must be at least 32 characters').default('fieldproof-local-session-secret-change-me-0001'),
-  PASSWORD_PEPPER: z.string().min(16, 'PASSWORD_PEPPER must be at least 16 characters').default('fieldproof-local-pepper-change-me'),
+  /** Unset: generated on first start into the data folder's secrets.json (mode 0600), see readEnv. */
+  SESSION_SECRET: secret('SESSION_SECRET', 32).optional(),
+  PASSWORD_PEPPER: secret('PASSWORD_PEPPER', 16).optional(),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Fieldproof <no-reply@fieldproof.test>'),
   MAIL_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
@@ -33,24 +52,75 @@ export const envSchema = z.object({
   UPLOAD_MAX_FILES_PER_CLAIM: z.coerce.number().int().min(1).default(40),
   UPLOAD_MAX_BYTES_PER_CLAIM: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
   UPLOAD_AGENCY_QUOTA_BYTES: z.coerce.number().int().min(1).default(10 * 1024 * 1024 * 1024),
-}).transform((e) => ({ ...e, PUBLIC_URL: e.PUBLIC_URL ?? `http://localhost:${e.PORT}` }));
+});
 
-export type Env = z.output<typeof envSchema>;
+export const envSchema = baseSchema
+  .superRefine((e, ctx) => {
+    if (!e.SMTP_URL && !isLoopbackHost(e.HOST)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['HOST'],
+        message: `${e.HOST} is not a loopback address. Without SMTP_URL Fieldproof runs in demo mode, whose local mailbox shows every mail (reset links included), so it listens on loopback only (127.0.0.1, ::1 or localhost). Set SMTP_URL to a real mail server to deploy it on ${e.HOST}.`,
+      });
+    }
+  })
+  .transform((e) => ({
+    ...e,
+    PUBLIC_URL: e.PUBLIC_URL ?? `http://localhost:${e.PORT}`,
+  }));
+
+export type Mode = 'demo' | 'deployment';
+/** demo: no SMTP_URL, local mail sink and mailbox, loopback only. deployment: SMTP_URL set, no mailbox. */
+export function modeOf(env: { SMTP_URL?: string | undefined }): Mode {
+  return env.SMTP_URL ? 'deployment' : 'demo';
+}
+
+/** The configuration as parsed, before the secrets are resolved. */
+export type Config = z.output<typeof envSchema>;
+/** The configuration the app runs with: both secrets present. */
+export type Env = Config & Record<SecretName, string>;
+
+function invalid(issues: string[]): Error {
+  return new Error(`Invalid configuration:\n${issues.map((l) => `  ${l}`).join('\n')}`);
+}
+
+function parseConfig(source: NodeJS.ProcessEnv): Config {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) throw invalid(parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`));
+  const env = parsed.data;
+  if (env.STORAGE_DRIVER === 's3' && !env.S3_BUCKET) throw invalid(['S3_BUCKET: required when STORAGE_DRIVER=s3']);
+  return env;
+}
+
+/** Parses a configuration whose secrets are given (tests pass random ones); refuses one without them. */
+export function parseEnv(source: NodeJS.ProcessEnv): Env {
+  const env = parseConfig(source);
+  const absent = (['SESSION_SECRET', 'PASSWORD_PEPPER'] as const).filter((n) => env[n] === undefined);
+  if (absent.length > 0) throw invalid(absent.map((n) => `${n}: required`));
+  return env as Env;
+}
+
+export interface ReadEnvResult {
+  env: Env;
+  /** The data folder's secrets file, and which secrets this start generated into it. */
+  secrets: { file: string; generated: SecretName[]; fromFile: SecretName[] };
+}
+
+/**
+ * Reads the configuration of a process. A secret the environment does not set comes from the
+ * data folder's secrets.json next to DATABASE_PATH, generated there (mode 0600) on first start
+ * and reused after, so sessions and password hashes survive a restart. A secret that is too
+ * short or stands anywhere in the source stops start-up, wherever it came from.
+ */
+export function readEnvWithSecrets(source: NodeJS.ProcessEnv = process.env): ReadEnvResult {
+  const config = parseConfig(source);
+  const fromEnv = { SESSION_SECRET: config.SESSION_SECRET, PASSWORD_PEPPER: config.PASSWORD_PEPPER };
+  const loaded = loadSecrets(config.DATABASE_PATH, fromEnv);
+  const env = parseEnv({ ...source, ...loaded.secrets });
+  const fromFile = (['SESSION_SECRET', 'PASSWORD_PEPPER'] as const).filter((n) => fromEnv[n] === undefined);
+  return { env, secrets: { file: loaded.file, generated: loaded.generated, fromFile } };
+}
 
 export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
-  const parsed = envSchema.safeParse(source);
-  if (!parsed.success) {
-    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
-    throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
-  }
-  const env = parsed.data;
-  if (env.STORAGE_DRIVER === 's3' && !env.S3_BUCKET) {
-    throw new Error('Invalid configuration:\n  S3_BUCKET: required when STORAGE_DRIVER=s3');
-  }
-  if (env.NODE_ENV === 'production' && process.env.FIELDPROOF_STRICT_SECRETS === 'true') {
-    if (env.SESSION_SECRET.includes('change-me') || env.PASSWORD_PEPPER.includes('change-me')) {
-      throw new Error('Invalid configuration:\n  SESSION_SECRET / PASSWORD_PEPPER: set real secrets in strict mode');
-    }
-  }
-  return env;
+  return readEnvWithSecrets(source).env;
 }

@@ -1,4 +1,4 @@
-import { readEnv, type Env } from './env';
+import { modeOf, readEnvWithSecrets, type Env, type ReadEnvResult } from './env';
 import { openDatabase } from './db/client';
 import { createApp } from './app';
 import { MailSink } from './lib/mail/sink';
@@ -12,12 +12,17 @@ import { describeSweep, sweepOrphans } from './modules/attachments/attachments.s
 
 async function main() {
   let env: Env;
+  let secrets: ReadEnvResult['secrets'];
   try {
-    env = readEnv();
+    ({ env, secrets } = readEnvWithSecrets());
   } catch (e) {
     console.error((e as Error).message);
     process.exit(1);
   }
+  if (secrets.generated.length > 0) {
+    console.log(`Generated ${secrets.generated.join(' and ')} into ${secrets.file} (mode 0600); later starts reuse it. Keep it with the database: without it sessions and passwords stop working.`);
+  }
+  const mode = modeOf(env);
 
   const db = openDatabase(env.DATABASE_PATH);
   if (env.SEED_DEMO && isEmpty(db)) {
@@ -35,7 +40,6 @@ async function main() {
     sink = new MailSink();
     const port = await sink.listen(env.MAIL_SINK_PORT).catch(() => sink!.listen(0));
     smtpUrl = `smtp://127.0.0.1:${port}`;
-    console.log(`Local mail sink listening on ${smtpUrl} (see /dev/mailbox).`);
   }
 
   const client = env.NODE_ENV === 'development' ? await viteClient() : env.NODE_ENV === 'test' ? [] : staticClient();
@@ -43,7 +47,9 @@ async function main() {
   deps.outbox.start();
 
   const server: Server = app.listen(env.PORT, env.HOST, () => {
-    console.log(`Fieldproof is running on ${env.PUBLIC_URL} (${env.NODE_ENV}).`);
+    const address = server.address();
+    const port = address && typeof address === 'object' ? address.port : env.PORT;
+    console.log(startLine({ env, mode, port, smtpUrl: smtpUrl!, secretsFile: secrets.fromFile.length > 0 ? secrets.file : null }));
     if (env.SEED_DEMO) printDemoSignIns();
   });
   server.on('error', (e) => {
@@ -65,6 +71,29 @@ async function main() {
   };
   process.on('SIGINT', () => void shutdown('SIGINT'));
   process.on('SIGTERM', () => void shutdown('SIGTERM'));
+}
+
+/** The one line that says how this process runs: mode, database, storage driver, mail path. */
+function startLine(o: { env: Env; mode: 'demo' | 'deployment'; port: number; smtpUrl: string; secretsFile: string | null }): string {
+  const { env } = o;
+  const storage = env.STORAGE_DRIVER === 's3' ? `s3 (bucket ${env.S3_BUCKET}${env.S3_ENDPOINT ? ` at ${env.S3_ENDPOINT}` : ''})` : `local (${env.STORAGE_DIR})`;
+  const mail =
+    o.mode === 'demo'
+      ? `local sink ${o.smtpUrl}, mailbox ${new URL('/dev/mailbox', env.PUBLIC_URL).href} (this machine only)`
+      : `SMTP ${redactUrl(o.smtpUrl)}, no mailbox`;
+  const secrets = o.secretsFile ? `, secrets from ${o.secretsFile}` : '';
+  const listen = `http://${env.HOST.includes(':') ? `[${env.HOST}]` : env.HOST}:${o.port}`;
+  return `Fieldproof in ${o.mode} mode on ${env.PUBLIC_URL} (listening on ${listen}, ${env.NODE_ENV}): database ${env.DATABASE_PATH}, storage ${storage}, mail ${mail}${secrets}.`;
+}
+
+function redactUrl(url: string): string {
+  try {
+    const u = new URL(url);
+    if (u.password) u.password = '***';
+    return u.href;
+  } catch {
+    return '(unparsable SMTP_URL)';
+  }
 }
 
 void main();

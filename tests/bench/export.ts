@@ -97,10 +97,9 @@ interface ExportDataset {
 export async function buildExportDataset(): Promise<ExportDataset> {
   const { openDatabase } = await import('../../server/db/client');
   const { seedDemo } = await import('../../server/db/seed/demo');
-  const { envSchema } = await import('../../server/env');
   const dir = mkdtempSync(join(tmpdir(), 'fieldproof-bench-export-'));
   const databasePath = join(dir, 'export.sqlite');
-  const pepper = envSchema.parse({}).PASSWORD_PEPPER;
+  const pepper = (await import('node:crypto')).randomBytes(24).toString('base64url');
   const db = openDatabase(databasePath);
   seedDemo(db, { pepper, bcryptCost: 4, today: new Date().toISOString().slice(0, 10) });
   const sqlite = db.$client;

@@ -1,10 +1,11 @@
+import { randomBytes } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import request from 'supertest';
 import { openDatabase, type Db } from '../../server/db/client';
 import { createApp } from '../../server/app';
-import { envSchema, type Env } from '../../server/env';
+import { parseEnv, type Env } from '../../server/env';
 import { MailSink } from '../../server/lib/mail/sink';
 import { smtpMailer } from '../../server/lib/mail/mailer';
 import { seedDemo } from '../../server/db/seed/demo';
@@ -54,7 +55,10 @@ export interface TestApp {
  */
 export async function makeTestApp(opts: { seed?: boolean; clock?: Clock; env?: Partial<Record<keyof Env, string>> } = {}): Promise<TestApp> {
   const dir = mkdtempSync(join(tmpdir(), 'fieldproof-test-'));
-  const env = envSchema.parse({
+  // Fresh random secrets for every app: no key is written into the tests.
+  const env = parseEnv({
+    SESSION_SECRET: randomBytes(32).toString('base64url'),
+    PASSWORD_PEPPER: randomBytes(24).toString('base64url'),
     NODE_ENV: 'test',
     DATABASE_PATH: join(dir, 'test.sqlite'),
     STORAGE_DIR: join(dir, 'files'),

@@ -35,7 +35,7 @@ async function answer(f: Fixtures, row: RouteCase, who: Principal): Promise<{ st
   if (!req) req = await row.build({ who, f });
   if (!mayChange) refusedRequest.set(row, req);
   const agent = row.ownSession ? await f.freshAgent(who) : await f.agent(who);
-  const res = await send(agent, row.method, row.route, req);
+  const res = await send(agent, row.method, row.route, req, row.headers);
   if (row.endsSessions) f.forget(who);
   row.check?.(who, res);
   return { status: res.status, body: res.body };
@@ -79,6 +79,8 @@ describe('authorization matrix: every route x every principal', () => {
   it('anonymous gets 401 on every route but the public ones, which are exactly the sign-in, reset, invitation and dev-mailbox routes', () => {
     for (const row of routes) {
       const key = routeKey(row);
+      // A Host or Origin probe is refused before authentication: 421 or 403, also for anonymous.
+      if (row.headers) continue;
       if (PUBLIC_ROUTES.has(key)) expect(row.expect.anonymous, key).not.toBe(401);
       else expect(row.expect.anonymous, key).toBe(401);
     }

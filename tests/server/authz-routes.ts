@@ -73,6 +73,8 @@ export interface RouteCase {
   endsSessions?: boolean;
   /** More to check on an answer than its status. */
   check?(who: Principal, res: { status: number; body: unknown }): void;
+  /** Headers sent with the request (a probe of the Host allow-list or the Origin check). */
+  headers?: Record<string, string>;
 }
 
 /** Routes a signed-out visitor may call. Everything else must answer 401 to anonymous. */
@@ -855,6 +857,19 @@ export const routes: RouteCase[] = [
 
   // ------------------------------------------------------------------------------ development mailbox (the in-process sink is on)
   { method: 'GET', route: '/api/dev/mailbox', build: () => ({ query: { to: 'nobody@fixture.test' } }), expect: x(OK, OK, OK, OK, OK, OK, OK) },
+  // A DNS-rebound page names its own host: refused before any route, whoever is signed in.
+  { method: 'GET', route: '/api/dev/mailbox', name: 'Host evil.example (DNS rebinding)', headers: { Host: 'evil.example' }, build: () => ({}), expect: x(421, 421, 421, 421, 421, 421, 421) },
+  { method: 'GET', route: '/api/auth/me', name: 'Host evil.example (DNS rebinding)', headers: { Host: 'evil.example:3000' }, build: () => ({}), expect: x(421, 421, 421, 421, 421, 421, 421) },
+  {
+    method: 'POST',
+    route: '/api/auth/sign-out',
+    name: 'Host and Origin both evil.example',
+    headers: { Host: 'evil.example', Origin: 'http://evil.example' },
+    build: () => ({}),
+    expect: x(421, 421, 421, 421, 421, 421, 421),
+  },
+  // A write from a foreign Origin is refused before authentication (nothing ends, nothing is written).
+  { method: 'POST', route: '/api/auth/sign-out', name: 'foreign Origin', headers: { Origin: 'https://attacker.example' }, build: () => ({}), expect: x(403, 403, 403, 403, 403, 403, 403) },
 ];
 
 /** /api/admin: the manufacturer admin's alone; every other signed-in principal gets 403. */

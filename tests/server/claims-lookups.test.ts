@@ -141,7 +141,7 @@ describe('GET /api/dev/mailbox', () => {
   it('does not exist when no local sink is in use (a real mail server is configured)', async () => {
     const env = { ...t.env, SMTP_URL: 'smtp://127.0.0.1:1' };
     const { app } = createApp({ db: t.db, env, mailer: smtpMailer(env.SMTP_URL, env.MAIL_FROM), sink: null });
-    const res = await request(app).get('/api/dev/mailbox');
+    const res = await request(app).get('/api/dev/mailbox').set('Host', 'localhost:3000');
     expect(res.status).toBe(404);
   });
 });
