@@ -7,6 +7,7 @@ import { OutboxDispatcher } from './lib/mail/outbox';
 import type { Mailer } from './lib/mail/mailer';
 import type { MailSink } from './lib/mail/sink';
 import { SessionTokens } from './lib/session';
+import { RateStore } from './lib/rate-store';
 import type { AppDeps } from './lib/deps';
 import { authenticate } from './middleware/authenticate';
 import { csrfGuard, hostAllowList, localMailboxOnly, noStore, securityHeaders, siteNames } from './middleware/security';
@@ -38,6 +39,7 @@ export function createApp(opts: CreateAppOptions): App {
     db: opts.db,
     env: opts.env,
     clock,
+    rates: new RateStore(opts.db, clock),
     outbox: new OutboxDispatcher(opts.db, opts.mailer, clock),
     tokens: new SessionTokens(opts.env.SESSION_SECRET),
     sink: opts.sink ?? null,

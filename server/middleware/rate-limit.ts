@@ -1,128 +1,57 @@
 import type { Request, RequestHandler } from 'express';
 import { ipKeyGenerator } from 'express-rate-limit';
+import type { Db } from '../db/client';
+import { writeAudit } from '../lib/audit';
 import type { Clock } from '../lib/clock';
 import { TooManyRequestsError } from '../lib/errors';
+import type { RateRule, RateStore, RateTier } from '../lib/rate-store';
 
 /** One limit: at most `limit` counted attempts per key in a fixed window of `windowMs`. */
-export interface LimitTier {
-  limit: number;
-  windowMs: number;
-}
+export type LimitTier = RateTier;
 
-interface Window {
-  count: number;
-  resetAt: number;
-}
-
-export type TakeResult = { ok: true } | { ok: false; retryAfterSeconds: number; firstRefusal: boolean };
+export type TakeResult = { ok: true } | { ok: false; retryAfterSeconds: number };
 
 /**
- * A small in-memory attempt limiter on the app's clock (so tests can move time), with one or
- * more tiers per key (e.g. 5 per 15 minutes and 20 per day). `take` reserves an attempt before
- * the work is done, so concurrent requests cannot slip past the limit; `refund` gives it back
- * (an attempt that should not count, such as a successful sign-in) and `reset` forgets the key.
- * State lives in the instance: each app builds its own limiters, nothing is shared.
+ * A named attempt limiter over the SQLite rate store (so it survives a restart and is shared by
+ * every process on the database), with one or more tiers per key (e.g. 5 per 15 minutes and 20
+ * per day). `take` reserves an attempt before the work is done, so concurrent requests cannot
+ * slip past the limit; `refund` gives it back (an attempt that should not count, such as a
+ * successful sign-in) and `reset` forgets the key.
  */
 export class AttemptLimiter {
-  private windows = new Map<string, Window[]>();
-  private refused = new Set<string>();
-  private ops = 0;
-
+  readonly rule: RateRule;
   constructor(
-    private readonly tiers: LimitTier[],
-    private readonly clock: Clock,
-    /** Keys kept at most; the oldest are dropped first when an attack fills the map. */
-    private readonly maxKeys = 100_000,
+    private readonly store: RateStore,
+    name: string,
+    tiers: LimitTier[],
   ) {
     if (tiers.length === 0) throw new Error('AttemptLimiter needs at least one tier');
+    this.rule = { name, tiers };
   }
 
-  private current(key: string, now: number): Window[] {
-    let w = this.windows.get(key);
-    if (!w) {
-      w = this.tiers.map((t) => ({ count: 0, resetAt: now + t.windowMs }));
-      this.windows.set(key, w);
-    } else {
-      let renewed = false;
-      w.forEach((win, i) => {
-        if (now >= win.resetAt) {
-          win.count = 0;
-          win.resetAt = now + this.tiers[i].windowMs;
-          renewed = true;
-        }
-      });
-      if (renewed) this.refused.delete(key);
-    }
-    return w;
+  take(key: string): TakeResult {
+    const d = this.store.consume({ rule: this.rule, key });
+    return d.allowed ? { ok: true } : { ok: false, retryAfterSeconds: d.retryAfterSec };
   }
 
   /** Seconds until the key may try again, or 0 when it may try now. */
   retryAfter(key: string): number {
-    const now = this.clock.now().getTime();
-    const w = this.windows.get(key);
-    if (!w) return 0;
-    let until = 0;
-    w.forEach((win, i) => {
-      if (now < win.resetAt && win.count >= this.tiers[i].limit) until = Math.max(until, win.resetAt);
-    });
-    return until === 0 ? 0 : Math.max(1, Math.ceil((until - now) / 1000));
+    return this.store.peek({ rule: this.rule, key }).retryAfterSec;
   }
 
-  /** Counts one attempt, or refuses it (without counting) when any tier is full. */
-  take(key: string): TakeResult {
-    const now = this.clock.now().getTime();
-    this.sweep(now);
-    const w = this.current(key, now);
-    const full = w.some((win, i) => win.count >= this.tiers[i].limit);
-    if (full) {
-      const firstRefusal = !this.refused.has(key);
-      this.refused.add(key);
-      return { ok: false, retryAfterSeconds: this.retryAfter(key), firstRefusal };
-    }
-    for (const win of w) win.count++;
-    return { ok: true };
-  }
-
-  /** Gives back one attempt taken with `take`. */
   refund(key: string): void {
-    const w = this.windows.get(key);
-    if (w) for (const win of w) win.count = Math.max(0, win.count - 1);
+    this.store.refund({ rule: this.rule, key });
   }
 
   reset(key: string): void {
-    this.windows.delete(key);
-    this.refused.delete(key);
-  }
-
-  clear(): void {
-    this.windows.clear();
-    this.refused.clear();
-  }
-
-  get size(): number {
-    return this.windows.size;
-  }
-
-  private sweep(now: number): void {
-    if (++this.ops % 1000 !== 0 && this.windows.size < this.maxKeys) return;
-    for (const [key, w] of this.windows) {
-      if (w.every((win) => now >= win.resetAt)) {
-        this.windows.delete(key);
-        this.refused.delete(key);
-      }
-    }
-    // Still full: drop the oldest keys (Map keeps insertion order).
-    for (const key of this.windows.keys()) {
-      if (this.windows.size < this.maxKeys) break;
-      this.windows.delete(key);
-      this.refused.delete(key);
-    }
+    this.store.reset(this.rule, key);
   }
 }
 
 /**
  * The client address as a limiter key: IPv4 as is, IPv6 grouped by its /56 network (one host
- * usually holds many addresses of its prefix). `req.ip` honours the app's trust-proxy setting.
+ * usually holds many addresses of its prefix). `req.ip` honours the app's trust-proxy setting:
+ * with TRUST_PROXY=false it is the socket's peer, and a forwarded-for header is ignored.
  */
 export function clientAddress(req: Request): string {
   const ip = req.ip ?? req.socket.remoteAddress ?? 'unknown';
@@ -135,11 +64,28 @@ export function clientAddress(req: Request): string {
   }
 }
 
-/** Middleware: counts every request per client address and answers 429 with Retry-After when full. */
-export function limitByAddress(limiter: AttemptLimiter, message?: string): RequestHandler {
+/**
+ * Middleware: counts each request of the signed-in user against `rule` and answers 429 with
+ * Retry-After when it is full. The refusal is audited; repeats within a minute collapse into one
+ * row with a count (see writeAudit). Requests without a session pass (the route's own
+ * requireUser answers 401).
+ */
+export function limitPerUser(deps: { rates: RateStore; db: Db; clock: Clock }, rule: RateRule, opts: { action: string; message: string; when?: (req: Request) => boolean }): RequestHandler {
   return (req, _res, next) => {
-    const r = limiter.take(clientAddress(req));
-    if (!r.ok) throw new TooManyRequestsError(r.retryAfterSeconds, message);
-    next();
+    const user = req.ctx?.user;
+    if (!user || (opts.when && !opts.when(req))) return next();
+    const d = deps.rates.consume({ rule, key: user.id });
+    if (d.allowed) return next();
+    writeAudit(deps.db, deps.clock, {
+      actorId: user.id,
+      organisationId: user.organisationId,
+      action: opts.action,
+      recordType: 'rate_limit',
+      recordId: rule.name,
+      outcome: 'denied',
+      ip: clientAddress(req),
+      detail: { code: 'too_many_requests', status: 429 },
+    });
+    throw new TooManyRequestsError(d.retryAfterSec, opts.message);
   };
 }

@@ -9,3 +9,4 @@ export * from './system';
 export * from './catalog-history';
 export * from './idempotency';
 export * from './approval-limits';
+export * from './throttle';

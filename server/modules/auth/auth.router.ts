@@ -11,7 +11,7 @@ import { createAuthService, RESET_REQUESTED_MESSAGE, type AuthLimits } from './a
 
 /**
  * /api/auth: sign-in, sign-out, me, password reset. HTTP only; the rules are in the service.
- * The limiters are created here, per router (so per app): no state leaks between apps.
+ * The limiters are built here, per router, over the app's SQLite rate store (deps.rates).
  */
 export function authRouter(deps: AppDeps, options: { limits?: Partial<AuthLimits> } = {}): Router {
   const service = createAuthService(deps, options.limits);
@@ -19,8 +19,9 @@ export function authRouter(deps: AppDeps, options: { limits?: Partial<AuthLimits
 
   r.post('/sign-in', async (req, res) => {
     const body = parseBody(signInBodySchema, req.body);
-    const { token, me } = await service.signIn(body, clientAddress(req));
+    const { token, me, device } = await service.signIn(body, clientAddress(req), req.cookies);
     setSessionCookie(res, token, deps.secureCookies);
+    res.cookie(device.name, device.value, device.options);
     res.status(200).json(me);
   });
 

@@ -10,20 +10,15 @@ import { enqueueMail } from '../../lib/mail/outbox';
 import { checkPassword } from '../../lib/password-policy';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../../lib/passwords';
 import { AttemptLimiter, type LimitTier } from '../../middleware/rate-limit';
+import { createSignInThrottle, defaultSignInLimits, type DeviceCookie, type SignInLimits } from './sign-in-throttle';
 import { defineAbilityFor, type AppAbility, type SessionUser } from '@shared/permissions/ability';
 import type { MeResponse } from '@shared/schemas/user';
 import { findAccountByEmail, findAccountById, findResetByTokenHash, type AccountRow } from './auth.queries';
 
 const MINUTE = 60_000;
-const HOUR = 60 * MINUTE;
-const DAY = 24 * HOUR;
 
 /** Per-app limits (NIST SP 800-63B-4 §3.2.2 rate limiting); tests and deployments may override. */
-export interface AuthLimits {
-  /** Failed sign-ins per e-mail address, whether or not an account uses it. A success clears it. */
-  account: LimitTier[];
-  /** Failed sign-ins per client address, across accounts. */
-  address: LimitTier[];
+export interface AuthLimits extends SignInLimits {
   /** Reset requests per client address (all count). */
   resetRequestsPerAddress: LimitTier[];
   /** Reset mails per account; over it the request still answers 202 but sends nothing. */
@@ -33,15 +28,7 @@ export interface AuthLimits {
 }
 
 export const defaultAuthLimits: AuthLimits = {
-  account: [
-    { limit: 5, windowMs: 15 * MINUTE },
-    { limit: 20, windowMs: DAY },
-    { limit: 100, windowMs: 30 * DAY },
-  ],
-  address: [
-    { limit: 100, windowMs: 15 * MINUTE },
-    { limit: 1000, windowMs: DAY },
-  ],
+  ...defaultSignInLimits,
   resetRequestsPerAddress: [{ limit: 20, windowMs: 15 * MINUTE }],
   resetMailsPerAccount: [{ limit: 3, windowMs: 15 * MINUTE }],
   resetConfirmPerAddress: [{ limit: 50, windowMs: 15 * MINUTE }],
@@ -50,7 +37,7 @@ export const defaultAuthLimits: AuthLimits = {
 export const RESET_TTL_MS = 30 * MINUTE;
 
 export const INVALID_CREDENTIALS_MESSAGE = 'That e-mail address and password do not match an active account.';
-export const THROTTLED_MESSAGE = 'Too many sign-in attempts. Wait a while and try again, or reset your password.';
+export { THROTTLED_MESSAGE } from './sign-in-throttle';
 export const RESET_REQUESTED_MESSAGE =
   'If an active account uses that e-mail address, a link to set a new password is on its way. The link works once, within 30 minutes.';
 
@@ -68,6 +55,8 @@ export class InvalidResetTokenError extends AppError {
 export interface SignInResult {
   token: string;
   me: MeResponse;
+  /** The device cookie that makes this browser a trusted device for the account. */
+  device: DeviceCookie;
 }
 
 export type AuthService = ReturnType<typeof createAuthService>;
@@ -76,12 +65,11 @@ export type AuthService = ReturnType<typeof createAuthService>;
 export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {}) {
   const l: AuthLimits = { ...defaultAuthLimits, ...limits };
   const { db, clock, env } = deps;
+  const throttle = createSignInThrottle(deps, l);
   const limiters = {
-    account: new AttemptLimiter(l.account, clock),
-    address: new AttemptLimiter(l.address, clock),
-    resetRequests: new AttemptLimiter(l.resetRequestsPerAddress, clock),
-    resetMails: new AttemptLimiter(l.resetMailsPerAccount, clock),
-    resetConfirm: new AttemptLimiter(l.resetConfirmPerAddress, clock),
+    resetRequests: new AttemptLimiter(deps.rates, 'reset.request.address', l.resetRequestsPerAddress),
+    resetMails: new AttemptLimiter(deps.rates, 'reset.mail.account', l.resetMailsPerAccount),
+    resetConfirm: new AttemptLimiter(deps.rates, 'reset.confirm.address', l.resetConfirmPerAddress),
   };
   // Computed now, so the first unknown-account attempt is not slower than the rest.
   dummyPasswordHash(env.PASSWORD_PEPPER, env.BCRYPT_COST);
@@ -102,38 +90,20 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
 
     /**
      * Same 401 for an unknown e-mail, a wrong password and a deactivated account; an unknown
-     * account is compared against a dummy hash of the same cost so the timing matches. Each
-     * attempt is counted before the password is checked, so parallel guesses cannot pass the limit.
+     * account is compared against a dummy hash of the same cost so the timing matches. The
+     * throttle admits each attempt before the password is compared (device cookies: see
+     * sign-in-throttle.ts), so parallel guesses cannot pass the limit.
      */
-    async signIn(input: { email: string; password: string }, ip: string): Promise<SignInResult> {
+    async signIn(input: { email: string; password: string }, ip: string, cookies?: Record<string, unknown>): Promise<SignInResult> {
       const email = input.email;
-      const byAddress = limiters.address.take(ip);
-      const byAccount = byAddress.ok ? limiters.account.take(email) : null;
-      const refusal = !byAddress.ok ? byAddress : byAccount && !byAccount.ok ? byAccount : null;
-      if (refusal) {
-        if (byAddress.ok) limiters.address.refund(ip);
-        if (refusal.firstRefusal) {
-          // One denial row per key and window, so a flood cannot turn into a flood of writes.
-          const known = findAccountByEmail(db, email);
-          writeAudit(db, clock, {
-            actorId: known?.id ?? null,
-            organisationId: known?.organisationId ?? null,
-            action: 'auth.sign_in',
-            recordType: 'User',
-            recordId: known?.id ?? null,
-            outcome: 'denied',
-            ip,
-            detail: { reason: refusal === byAddress ? 'throttled_address' : 'throttled_account', ...(known ? {} : { emailDigest: emailDigest(email) }) },
-          });
-        }
-        throw new TooManyRequestsError(refusal.retryAfterSeconds, THROTTLED_MESSAGE);
-      }
-
       const account = findAccountByEmail(db, email);
+      const admission = await throttle.admit({ email, account: account ?? null, cookies, ip, emailDigest: emailDigest(email) });
+
       const hash = account?.passwordHash ?? dummyPasswordHash(env.PASSWORD_PEPPER, env.BCRYPT_COST);
       const matches = await verifyPassword(input.password, hash, env.PASSWORD_PEPPER);
       const usable = !!account && !!account.passwordHash && account.active && account.organisationActive;
 
+      throttle.settle(admission, matches && usable);
       if (!matches || !usable) {
         const reason = !account ? 'unknown_account' : !account.passwordHash ? 'no_password' : !matches ? 'wrong_password' : 'inactive';
         writeAudit(db, clock, {
@@ -145,14 +115,12 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
           outcome: 'failure',
           ip,
           detail: { reason, ...(account ? {} : { emailDigest: emailDigest(email) }) },
+          repeats: 'keep',
         });
         throw new InvalidCredentialsError();
       }
 
       const a = account as AccountRow;
-      // A success does not count against the address, and clears the account's failures.
-      limiters.address.refund(ip);
-      limiters.account.reset(email);
       const now = clock.now().toISOString();
       tx(db, (t) => {
         t.update(users).set({ lastSignInAt: now }).where(eq(users.id, a.id)).run();
@@ -160,7 +128,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       });
       const token = await deps.tokens.issue(a.id, a.sessionVersion, nowSeconds(), nowSeconds(), a.role);
       const ability = defineAbilityFor({ id: a.id, email: a.email, name: a.name, role: a.role, organisationId: a.organisationId, organisationKind: a.organisationKind });
-      return { token, me: meOf(a, ability) };
+      return { token, me: meOf(a, ability), device: await throttle.deviceCookie(a.id) };
     },
 
     /** Ends every session of the user at once (the session version moves on). */
@@ -286,7 +254,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
         writeAudit(t, clock, { actorId: account.id, organisationId: account.organisationId, action: 'auth.password_reset', recordType: 'PasswordReset', recordId: row.id, outcome: 'success', ip });
       });
       // The owner proved control of the mailbox: earlier failed sign-ins no longer hold the account.
-      limiters.account.reset(account.email);
+      throttle.clearAccount(account.email);
     },
   };
 }

@@ -37,7 +37,7 @@ export type InvitationsService = ReturnType<typeof createInvitationsService>;
 export function createInvitationsService(deps: AppDeps) {
   const { db, clock, env } = deps;
   /** Failed acceptances per client address: a token cannot be guessed at speed. */
-  const acceptLimiter = new AttemptLimiter([{ limit: 30, windowMs: 15 * 60_000 }], clock);
+  const acceptLimiter = new AttemptLimiter(deps.rates, 'invitation.accept.address', [{ limit: 30, windowMs: 15 * 60_000 }]);
   const nowIso = () => clock.now().toISOString();
   const link = (token: string) => `${env.PUBLIC_URL.replace(/\/$/, '')}/accept-invitation?token=${encodeURIComponent(token)}`;
 
