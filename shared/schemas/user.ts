@@ -28,6 +28,7 @@ export const roleSchema = z.enum(roles);
 
 export interface MeResponse {
   user: { id: string; email: string; name: string; role: Role; organisationId: string };
-  organisation: { id: string; name: string; kind: 'manufacturer' | 'agency' };
+  /** timeZone: the organisation's IANA time zone; its business days (today, date pickers' max) are counted in it. */
+  organisation: { id: string; name: string; kind: 'manufacturer' | 'agency'; timeZone: string };
   rules: AppRule[];
 }

@@ -6,6 +6,7 @@ import { createMemoryRouter, RouterProvider, type RouteObject } from 'react-rout
 import type { MeResponse } from '@shared/schemas/user';
 import { defineAbilityFor, type Role } from '@shared/permissions/ability';
 import { SessionAbilityProvider } from '@/lib/ability';
+import { OrganisationTimeZoneProvider } from '@/lib/business-day';
 import { queryDefaults } from '@/lib/query-client';
 
 // jsdom on a busy machine is slow: give async queries room before they fail.
@@ -19,8 +20,8 @@ export function testQueryClient(): QueryClient {
 }
 
 const orgs = {
-  agency: { id: 'org-agency-a', name: 'Test Agency A', kind: 'agency' as const },
-  manufacturer: { id: 'org-maker', name: 'Test Maker', kind: 'manufacturer' as const },
+  agency: { id: 'org-agency-a', name: 'Test Agency A', kind: 'agency' as const, timeZone: 'America/Chicago' },
+  manufacturer: { id: 'org-maker', name: 'Test Maker', kind: 'manufacturer' as const, timeZone: 'America/Chicago' },
 };
 
 /** A session for one role, with the rules the shared CASL definitions give that role. */
@@ -38,7 +39,9 @@ export function renderRoutes(routes: RouteObject[], { path = '/', me = null as M
   const view = render(
     <QueryClientProvider client={queryClient}>
       <SessionAbilityProvider rules={me?.rules}>
-        <RouterProvider router={router} />
+        <OrganisationTimeZoneProvider timeZone={me?.organisation.timeZone}>
+          <RouterProvider router={router} />
+        </OrganisationTimeZoneProvider>
       </SessionAbilityProvider>
     </QueryClientProvider>,
   );

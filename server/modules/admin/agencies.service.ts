@@ -7,7 +7,7 @@ import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import { addDays } from '@shared/calculations/dates';
 import type { AgencyDetail, AgencyListItem, ContractTermsItem, UpdateAgencyBody, UpdateTermsBody } from '@shared/schemas/admin';
 import { createAgencySchema, createTermsSchema } from '@shared/schemas/admin';
@@ -48,17 +48,17 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
     if (!row) throw new NotFoundError('No such agency.');
     return row;
   }
-  const detail = (ctx: RequestContext, id: string) => getAgencyDetail(db, ctx.ability, id, today(clock), nowIso()) as AgencyDetail;
+  const detail = (ctx: RequestContext, id: string) => getAgencyDetail(db, ctx.ability, id, todayFor(db, clock, ctx.user.organisationId), nowIso()) as AgencyDetail;
 
   return {
     list(ctx: RequestContext): AgencyListItem[] {
       guard(ctx, 'Agency', 'read');
-      return listAgencies(db, ctx.ability, today(clock), nowIso());
+      return listAgencies(db, ctx.ability, todayFor(db, clock, ctx.user.organisationId), nowIso());
     },
 
     get(ctx: RequestContext, id: string): AgencyDetail {
       guard(ctx, 'Agency', 'read');
-      const d = getAgencyDetail(db, ctx.ability, id, today(clock), nowIso());
+      const d = getAgencyDetail(db, ctx.ability, id, todayFor(db, clock, ctx.user.organisationId), nowIso());
       if (!d) throw new NotFoundError('No such agency.');
       return d;
     },

@@ -6,7 +6,7 @@ import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import type {
   CreateFamilyBody,
   FamilyItem,
@@ -218,7 +218,7 @@ export function createCatalogService(deps: AppDeps) {
     // ------------------------------------------------------------------ parts
     listParts(ctx: RequestContext): PartItem[] {
       guard(ctx, 'read');
-      return listParts(db, today(clock));
+      return listParts(db, todayFor(db, clock, ctx.user.organisationId));
     },
     createPart(ctx: RequestContext, body: CreatePart, ip: string): PartItem {
       guard(ctx, 'create');
@@ -229,12 +229,12 @@ export function createCatalogService(deps: AppDeps) {
         t.insert(parts).values({ id, ...body, active: true, createdAt: now(), updatedAt: now() }).run();
         audit(t, ctx, 'catalog.part.create', 'Part', id, ip, { ...body });
       });
-      return listParts(db, today(clock), { id })[0];
+      return listParts(db, todayFor(db, clock, ctx.user.organisationId), { id })[0];
     },
     /** A new list price applies to claims repaired on or after its effective date (default today). */
     updatePart(ctx: RequestContext, id: string, body: UpdatePartBody, ip: string): PartItem {
       guard(ctx, 'update');
-      const day = today(clock);
+      const day = todayFor(db, clock, ctx.user.organisationId);
       tx(db, (t) => {
         const row = t.select().from(parts).where(eq(parts.id, id)).get();
         if (!row) throw new NotFoundError('No such part.');
@@ -262,7 +262,7 @@ export function createCatalogService(deps: AppDeps) {
     // ------------------------------------------------------------------ repair codes
     listRepairCodes(ctx: RequestContext): RepairCodeItem[] {
       guard(ctx, 'read');
-      return listRepairCodes(db, today(clock));
+      return listRepairCodes(db, todayFor(db, clock, ctx.user.organisationId));
     },
     createRepairCode(ctx: RequestContext, body: CreateRepairCode, ip: string): RepairCodeItem {
       guard(ctx, 'create');
@@ -273,12 +273,12 @@ export function createCatalogService(deps: AppDeps) {
         t.insert(repairCodes).values({ id, ...body, requiredEvidence: [...new Set(body.requiredEvidence)], active: true, createdAt: now(), updatedAt: now() }).run();
         audit(t, ctx, 'catalog.repair_code.create', 'RepairCode', id, ip, { ...body });
       });
-      return listRepairCodes(db, today(clock), { id })[0];
+      return listRepairCodes(db, todayFor(db, clock, ctx.user.organisationId), { id })[0];
     },
     /** A new allowance applies to claims repaired on or after its effective date (default today). */
     updateRepairCode(ctx: RequestContext, id: string, body: UpdateRepairCodeBody, ip: string): RepairCodeItem {
       guard(ctx, 'update');
-      const day = today(clock);
+      const day = todayFor(db, clock, ctx.user.organisationId);
       tx(db, (t) => {
         const row = t.select().from(repairCodes).where(eq(repairCodes.id, id)).get();
         if (!row) throw new NotFoundError('No such repair code.');

@@ -7,7 +7,7 @@ import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
 import { ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import type {
   AgencyProfile,
   CertificationItem,
@@ -47,14 +47,14 @@ export function createAgencyService(deps: AppDeps) {
     listCertifications(ctx: RequestContext, filters: { userId?: string }): CertificationItem[] {
       requireAgency(ctx);
       if (!ctx.ability.can('read', 'Certification')) throw new ForbiddenError();
-      return listCertifications(db, ctx.ability, filters, today(clock));
+      return listCertifications(db, ctx.ability, filters, todayFor(db, clock, ctx.user.organisationId));
     },
 
     expiring(ctx: RequestContext): CertificationItem[] {
       requireAgency(ctx);
       if (!ctx.ability.can('read', 'Certification')) throw new ForbiddenError();
       const own = ctx.ability.can('create', 'Certification') ? null : ctx.user.id;
-      return expiringCertifications(db, ctx.user.organisationId, today(clock)).filter((c) => own === null || c.userId === own);
+      return expiringCertifications(db, ctx.user.organisationId, todayFor(db, clock, ctx.user.organisationId)).filter((c) => own === null || c.userId === own);
     },
 
     createCertification(ctx: RequestContext, body: CreateCertificationBody, ip: string): CertificationItem {
@@ -91,7 +91,7 @@ export function createAgencyService(deps: AppDeps) {
           detail: { userId: body.userId, familyId: body.familyId, validFrom: body.validFrom, validTo: body.validTo },
         });
       });
-      return getCertificationItem(db, id, today(clock)) as CertificationItem;
+      return getCertificationItem(db, id, todayFor(db, clock, ctx.user.organisationId)) as CertificationItem;
     },
 
     updateCertification(ctx: RequestContext, id: string, body: UpdateCertificationBody, ip: string): CertificationItem {
@@ -114,7 +114,7 @@ export function createAgencyService(deps: AppDeps) {
         for (const k of Object.keys(next) as (keyof typeof next)[]) if (next[k] !== row[k]) changed[k] = { from: row[k], to: next[k] };
         writeAudit(t, clock, { actorId: ctx.user.id, organisationId: row.organisationId, action: 'certification.update', recordType: 'Certification', recordId: id, outcome: 'success', ip, detail: changed });
       });
-      return getCertificationItem(db, id, today(clock)) as CertificationItem;
+      return getCertificationItem(db, id, todayFor(db, clock, ctx.user.organisationId)) as CertificationItem;
     },
 
     // ------------------------------------------------------------------ profile

@@ -5,7 +5,7 @@ import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import { agencyRoles, manufacturerRoles, roleLabels, type Role } from '@shared/permissions/ability';
 import type { UpdateUserBody, UserListItem } from '@shared/schemas/admin';
 import { countOtherActive, findVisibleUser, listUsers } from './agency.queries';
@@ -37,7 +37,7 @@ export function createUsersService(deps: AppDeps) {
   return {
     list(ctx: RequestContext, scope: UserScope): UserListItem[] {
       requireUserAdmin(ctx, scope);
-      return listUsers(db, ctx.ability, ctx.user.organisationId, today(clock));
+      return listUsers(db, ctx.ability, ctx.user.organisationId, todayFor(db, clock, ctx.user.organisationId));
     },
 
     /**
@@ -79,7 +79,7 @@ export function createUsersService(deps: AppDeps) {
           detail,
         });
       });
-      const item = listUsers(db, ctx.ability, ctx.user.organisationId, today(clock)).find((u) => u.id === id);
+      const item = listUsers(db, ctx.ability, ctx.user.organisationId, todayFor(db, clock, ctx.user.organisationId)).find((u) => u.id === id);
       if (!item) throw new NotFoundError('No such user.');
       return item;
     },

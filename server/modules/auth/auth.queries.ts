@@ -16,6 +16,7 @@ export function findAccountByEmail(db: Db, email: string) {
       organisationId: users.organisationId,
       organisationName: organisations.name,
       organisationKind: organisations.kind,
+      organisationTimeZone: organisations.timeZone,
       organisationActive: organisations.active,
     })
     .from(users)
@@ -36,6 +37,7 @@ export function findAccountById(db: Db, id: string) {
       organisationId: users.organisationId,
       organisationName: organisations.name,
       organisationKind: organisations.kind,
+      organisationTimeZone: organisations.timeZone,
       organisationActive: organisations.active,
     })
     .from(users)

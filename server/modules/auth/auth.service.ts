@@ -77,10 +77,10 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
   /** The e-mail as it may appear in the audit log: keyed hash, never the address of an unknown account. */
   const emailDigest = (email: string) => createHmac('sha256', env.PASSWORD_PEPPER).update(`audit-email:${email}`).digest('hex').slice(0, 32);
 
-  function meOf(a: { id: string; email: string; name: string; role: SessionUser['role']; organisationId: string; organisationName: string; organisationKind: 'manufacturer' | 'agency' }, ability: AppAbility): MeResponse {
+  function meOf(a: { id: string; email: string; name: string; role: SessionUser['role']; organisationId: string; organisationName: string; organisationKind: 'manufacturer' | 'agency'; organisationTimeZone: string }, ability: AppAbility): MeResponse {
     return {
       user: { id: a.id, email: a.email, name: a.name, role: a.role, organisationId: a.organisationId },
-      organisation: { id: a.organisationId, name: a.organisationName, kind: a.organisationKind },
+      organisation: { id: a.organisationId, name: a.organisationName, kind: a.organisationKind, timeZone: a.organisationTimeZone },
       rules: ability.rules,
     };
   }

@@ -26,7 +26,6 @@ import {
 } from '../../db/schema/index';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
-import { today as todayOf } from '../../lib/clock';
 import { newId } from '../../lib/ids';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
@@ -52,7 +51,8 @@ const notFound = () => new NotFoundError('No claim with that id.');
 
 export function createClaimsService(deps: AppDeps) {
   const { db, clock } = deps;
-  const today = () => todayOf(clock);
+  /** Now, as an instant: the computation reads it as the day it is in the claim's agency's time zone. */
+  const today = () => clock.now();
 
   function audit(a: Actor, action: string, recordId: string | null, outcome: 'success' | 'failure' | 'denied', detail?: Record<string, unknown>) {
     writeAudit(db, clock, {

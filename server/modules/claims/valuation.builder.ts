@@ -29,6 +29,7 @@ import { valueClaim, type LineAdjustment, type Valuation, type ValuationInput } 
 import { isCalculationInputError } from '@shared/calculations/errors';
 import { KM_PER_MILE } from '@shared/calculations/travel';
 import { areCompatible } from '@shared/calculations/units';
+import { businessDay, DEFAULT_TIME_ZONE } from '@shared/calculations/business-day';
 import { validateForSubmit, type SubmitFacts, type SubmitValidation } from '@shared/workflow/submit-validation';
 import type { ClaimFacts } from '@shared/workflow/claim-machine';
 import { allowancesOn, pricesOn } from '../admin/catalog.queries';
@@ -40,6 +41,8 @@ export interface BuildProblem {
 
 export interface ClaimInputs {
   claim: Claim;
+  /** The agency's IANA time zone: its business days (filing date, today) are counted in it. */
+  timeZone: string;
   unit: { id: string; serial: string; shipDate: string; installDate: string | null; modelId: string; familyId: string; familyName: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number } | null;
   site: { latitude: number; longitude: number } | null;
   base: { latitude: number; longitude: number } | null;
@@ -79,7 +82,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
         .get() ?? null)
     : null;
   const site = claim.siteId ? (db.select({ latitude: sites.latitude, longitude: sites.longitude }).from(sites).where(eq(sites.id, claim.siteId)).get() ?? null) : null;
-  const agency = db.select({ latitude: organisations.latitude, longitude: organisations.longitude }).from(organisations).where(eq(organisations.id, claim.agencyId)).get();
+  const agency = db.select({ latitude: organisations.latitude, longitude: organisations.longitude, timeZone: organisations.timeZone }).from(organisations).where(eq(organisations.id, claim.agencyId)).get();
   const base = agency && agency.latitude !== null && agency.longitude !== null ? { latitude: agency.latitude, longitude: agency.longitude } : null;
 
   const terms = claim.repairDate
@@ -166,6 +169,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
 
   return {
     claim,
+    timeZone: agency?.timeZone ?? DEFAULT_TIME_ZONE,
     unit,
     site,
     base,
@@ -181,6 +185,13 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
     priorRepairs,
   };
 }
+
+/**
+ * "Today" for the computation: a business day as given ('YYYY-MM-DD'), or an instant read as
+ * the day it is in the agency's time zone.
+ */
+export type AsOf = string | Date;
+export const agencyDayOf = (inputs: Pick<ClaimInputs, 'timeZone'>, asOf: AsOf): string => (typeof asOf === 'string' ? asOf : businessDay(asOf, inputs.timeZone));
 
 const hasText = (s: string | null | undefined): s is string => typeof s === 'string' && s.trim() !== '';
 
@@ -227,8 +238,9 @@ export function adjustmentsOf(inputs: ClaimInputs): { adjustments: LineAdjustmen
  * The valuation input, or the problems that keep the claim from being valued yet (no unit,
  * no dates, no contract terms in force on the repair date).
  */
-export function valuationInputOf(inputs: ClaimInputs, today: string): { input: ValuationInput | null; problems: BuildProblem[] } {
+export function valuationInputOf(inputs: ClaimInputs, asOf: AsOf): { input: ValuationInput | null; problems: BuildProblem[] } {
   const { claim, unit, terms } = inputs;
+  const today = agencyDayOf(inputs, asOf);
   const problems: BuildProblem[] = [];
   if (!unit) problems.push({ path: 'serial', message: 'Find the unit by its serial number to value the claim.' });
   if (!claim.failureDate) problems.push({ path: 'failureDate', message: 'Enter the failure date to value the claim.' });
@@ -242,7 +254,7 @@ export function valuationInputOf(inputs: ClaimInputs, today: string): { input: V
     currency: claim.currency,
     failureDate: claim.failureDate,
     repairDate: claim.repairDate,
-    filedDate: claim.firstSubmittedAt ? claim.firstSubmittedAt.slice(0, 10) : null,
+    filedDate: claim.firstSubmittedAt ? businessDay(claim.firstSubmittedAt, inputs.timeZone) : null, // the agency's day of the first filing
     asOfDate: claim.firstSubmittedAt ? null : today,
     unit: { serial: unit.serial, familyId: unit.familyId, familyName: unit.familyName, shipDate: unit.shipDate, installDate: unit.installDate },
     warrantyTerms: { partsMonths: unit.partsMonths, laborMonths: unit.laborMonths, capMonthsFromShip: unit.capMonthsFromShip, installGraceDays: unit.installGraceDays },
@@ -289,8 +301,8 @@ export interface ClaimValuationResult {
 }
 
 /** Values the claim; malformed stored input comes back as problems, never as a thrown error. */
-export function valueFromInputs(inputs: ClaimInputs, today: string): ClaimValuationResult {
-  const { input, problems } = valuationInputOf(inputs, today);
+export function valueFromInputs(inputs: ClaimInputs, asOf: AsOf): ClaimValuationResult {
+  const { input, problems } = valuationInputOf(inputs, asOf);
   if (!input) return { valuation: null, problems };
   try {
     return { valuation: valueClaim(input), problems: [] };
@@ -301,14 +313,14 @@ export function valueFromInputs(inputs: ClaimInputs, today: string): ClaimValuat
 }
 
 /** The input builder for one claim id (reads only). */
-export function buildValuationInput(db: Db, claimId: string, today: string): { input: ValuationInput | null; problems: BuildProblem[] } {
+export function buildValuationInput(db: Db, claimId: string, asOf: AsOf): { input: ValuationInput | null; problems: BuildProblem[] } {
   const claim = db.select().from(claims).where(eq(claims.id, claimId)).get();
   if (!claim) return { input: null, problems: [{ path: 'id', message: 'No such claim.' }] };
-  return valuationInputOf(loadClaimInputs(db, claim), today);
+  return valuationInputOf(loadClaimInputs(db, claim), asOf);
 }
 
 /** The facts the submit guard checks. */
-export function submitFactsOf(inputs: ClaimInputs, today: string): SubmitFacts {
+export function submitFactsOf(inputs: ClaimInputs, asOf: AsOf): SubmitFacts {
   const codes = new Set(inputs.labor.map((l) => l.code));
   const requiredReadings: Array<{ key: string; label: string; phase: 'before' | 'after' }> = [];
   for (const s of inputs.specs) {
@@ -321,7 +333,7 @@ export function submitFactsOf(inputs: ClaimInputs, today: string): SubmitFacts {
     unitId: inputs.unit?.id ?? null,
     failureDate: c.failureDate,
     repairDate: c.repairDate,
-    today,
+    today: agencyDayOf(inputs, asOf),
     complaint: c.complaint,
     cause: c.cause,
     correction: c.correction,
@@ -354,8 +366,9 @@ export interface ClaimEvaluation {
 }
 
 /** Everything the workflow guards need for one claim, from its rows. */
-export function evaluateClaim(db: Db, claim: Claim, today: string): ClaimEvaluation {
+export function evaluateClaim(db: Db, claim: Claim, asOf: AsOf): ClaimEvaluation {
   const inputs = loadClaimInputs(db, claim);
+  const today = agencyDayOf(inputs, asOf);
   const validation = validateForSubmit(submitFactsOf(inputs, today));
   const valuation = valueFromInputs(inputs, today);
   return { inputs, validation, valuation, facts: { validation, undecidedLines: undecidedLinesOf(inputs, valuation) } };

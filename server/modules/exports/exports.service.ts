@@ -14,7 +14,7 @@ import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
 import { ForbiddenError, NotFoundError } from '../../lib/errors';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import type { PaidClaimsExportQuery } from '@shared/schemas/payment';
 import { exportScope, paidClaimsStatement } from './exports.queries';
 import type { PaidClaimRow } from './paid-claims.csv';
@@ -58,7 +58,8 @@ export function createExportsService(deps: AppDeps) {
     }
     const statement = paidClaimsStatement(db, exportScope(ability), { from: q.from, to: q.to, agencyId: q.agency });
     audit('success', { from: q.from ?? null, to: q.to ?? null, agency: q.agency ?? null });
-    const span = q.from || q.to ? `${q.from ?? 'start'}-to-${q.to ?? today(clock)}` : today(clock);
+    const day = todayFor(db, clock, user.organisationId);
+    const span = q.from || q.to ? `${q.from ?? 'start'}-to-${q.to ?? day}` : day;
     return {
       filename: `paid-claims-${span}.csv`,
       open() {

@@ -5,7 +5,7 @@
 import { and, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import { certifications, claimPartLines, claims, models, organisations, parts, paymentRunItems, paymentRuns, repairCodes, users } from '../../db/schema/index';
 import { addDays } from '@shared/calculations/dates';
 import type { ClaimState } from '@shared/schemas/claim';
@@ -44,7 +44,7 @@ export function createHomeService(deps: AppDeps) {
 
   /** A notice of approved claims whose required part returns are overdue, when there are any. */
   function overdueNotice(ctx: RequestContext, notices: HomeResponse['notices']) {
-    const n = countClaimsWhere(db, ctx.ability, overdueReturns(today(deps.clock)));
+    const n = countClaimsWhere(db, ctx.ability, overdueReturns(db, deps.clock.now()));
     if (n > 0) {
       notices.push({
         key: 'part_returns_overdue',
@@ -74,7 +74,7 @@ export function createHomeService(deps: AppDeps) {
           claimCard(ctx, { key: 'agency_approved', label: 'Approved, awaiting payment', hint: 'Paid in the manufacturer’s next payment run', where: inState('approved'), href: '/claims?state=approved', tone: 'info', order: 'oldest_decided', amount: 'approved' }),
           claimCard(ctx, { key: 'agency_part_returns', label: 'Parts to return', hint: 'Ship the failed parts back so the claims can be paid', where: and(inState('approved'), awaitingReturn) as SQL, href: '/claims?state=approved', tone: 'action', order: 'oldest_decided', amount: 'approved' }),
         ];
-        const t = today(deps.clock);
+        const t = todayFor(deps.db, deps.clock, ctx.user.organisationId);
         const soon = db
           .select({ n: sql<number>`count(*)` })
           .from(certifications)

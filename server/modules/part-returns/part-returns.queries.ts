@@ -5,10 +5,11 @@
  * A required return is settled when the part was received in a condition other than
  * "not in the shipment", or the reviewer waived it. Lines that need no return are settled.
  */
-import { asc, eq, sql, type SQL } from 'drizzle-orm';
+import { asc, eq, or, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { claimPartLines, claims, parts } from '../../db/schema/index';
+import { claimPartLines, claims, organisations, parts } from '../../db/schema/index';
 import { addDays } from '@shared/calculations/dates';
+import { businessDay, startOfBusinessDay } from '@shared/calculations/business-day';
 import { PART_RETURN_OVERDUE_DAYS } from '@shared/schemas/payment';
 
 /** The line-level test, on a `claim_part_lines` row aliased as the table itself. */
@@ -20,18 +21,28 @@ export const hasUnsettledReturn: SQL = sql`exists (select 1 from ${claimPartLine
 /** Every required return of the claim is settled (true for claims without such parts). */
 export const returnsSettled: SQL = sql`not ${hasUnsettledReturn}`;
 
-/** The day from which an unsettled return of a claim approved on `decidedAt` is overdue. */
-export function returnDueDate(decidedAt: string | null): string | null {
-  return decidedAt ? addDays(decidedAt.slice(0, 10), PART_RETURN_OVERDUE_DAYS) : null;
+/**
+ * The last day an unsettled return of a claim approved at the instant `decidedAt` is on time:
+ * the approval's business day in the agency's time zone + PART_RETURN_OVERDUE_DAYS.
+ */
+export function returnDueDate(decidedAt: string | null, timeZone: string): string | null {
+  return decidedAt ? addDays(businessDay(decidedAt, timeZone), PART_RETURN_OVERDUE_DAYS) : null;
 }
 
 /**
  * Approved claims with an unsettled required return, approved more than the window ago:
- * approval day + PART_RETURN_OVERDUE_DAYS < today.
+ * approval day + PART_RETURN_OVERDUE_DAYS < today, both days in the claim's agency's time
+ * zone. Per zone in use by agencies (a handful), that is `decided_at` before the first instant
+ * of the local day (today - window), so the test stays a range on the stored UTC instant.
  */
-export function overdueReturns(today: string): SQL {
-  const cutoff = addDays(today, -PART_RETURN_OVERDUE_DAYS);
-  return sql`(${claims.state} = 'approved' and ${claims.decidedAt} is not null and substr(${claims.decidedAt}, 1, 10) < ${cutoff} and ${hasUnsettledReturn})`;
+export function overdueReturns(db: Db, now: Date): SQL {
+  const zones = db.selectDistinct({ tz: organisations.timeZone }).from(organisations).where(eq(organisations.kind, 'agency')).all().map((r) => r.tz);
+  const byZone = zones.map((tz) => {
+    const cutoff = startOfBusinessDay(addDays(businessDay(now, tz), -PART_RETURN_OVERDUE_DAYS), tz);
+    return sql`(${claims.agencyId} in (select ${organisations.id} from ${organisations} where ${organisations.timeZone} = ${tz}) and ${claims.decidedAt} < ${cutoff})`;
+  });
+  const inTime = byZone.length > 0 ? (or(...byZone) as SQL) : sql`0`;
+  return sql`(${claims.state} = 'approved' and ${claims.decidedAt} is not null and ${inTime} and ${hasUnsettledReturn})`;
 }
 
 export type PartLineRow = {

@@ -13,7 +13,8 @@ import { tx } from '../../db/client';
 import { claimEvents, claimPartLines, claims, type Claim } from '../../db/schema/index';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
-import { today as todayOf } from '../../lib/clock';
+import { organisationTimeZone } from '../../lib/business-day';
+import { businessDay } from '@shared/calculations/business-day';
 import { newId } from '../../lib/ids';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../../lib/errors';
@@ -65,8 +66,10 @@ export function createPartReturnsService(deps: AppDeps) {
   }
 
   function view(a: Actor, row: Claim): PartReturnsResponse {
-    const today = todayOf(clock);
-    const due = row.state === 'approved' ? returnDueDate(row.decidedAt) : null;
+    // both days in the agency's time zone: the approval's day and today
+    const timeZone = organisationTimeZone(db, row.agencyId);
+    const today = businessDay(clock.now(), timeZone);
+    const due = row.state === 'approved' ? returnDueDate(row.decidedAt, timeZone) : null;
     const lines: PartReturnLine[] = loadPartLines(db, row.id).map((l) => {
       const settled = isLineSettled(l);
       const allowedActions =

@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
-import { today } from '../../lib/clock';
+import { todayFor } from '../../lib/business-day';
 import { ForbiddenError, NotFoundError } from '../../lib/errors';
 import { claims } from '../../db/schema/index';
 import { computeCoverage } from '@shared/calculations/coverage';
@@ -14,7 +14,7 @@ export function createUnitsService(deps: AppDeps) {
     if (!ctx.ability.can('read', 'Unit')) throw new ForbiddenError('You may not look up units.');
     const found = serial.trim() === '' || serial.length > 60 ? undefined : findUnitBySerial(deps.db, serial);
     if (!found) throw new NotFoundError(`No unit has the serial number "${serial.trim().slice(0, 60)}". Check the serial plate and try again.`);
-    const date = on ?? today(deps.clock);
+    const date = on ?? todayFor(deps.db, deps.clock, ctx.user.organisationId);
     const coverage = computeCoverage({
       failureDate: date,
       shipDate: found.unit.shipDate,

@@ -132,11 +132,6 @@ export function requiredReadings(specs: readonly Spec[], codes: ReadonlySet<stri
   return out;
 }
 
-/** Today as the server counts it (UTC), so "not in the future" agrees on both sides. */
-export function todayUtc(now: Date = new Date()): string {
-  return now.toISOString().slice(0, 10);
-}
-
 /** The facts of the shared submit validation, from the form as it stands. */
 export function submitFactsOf(
   values: ClaimFormValues,

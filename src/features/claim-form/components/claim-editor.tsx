@@ -10,6 +10,7 @@ import { Alert } from '@/components/ui/alert';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Spinner } from '@/components/ui/spinner';
 import { errorMessage, isApiError, type ApiError } from '@/lib/api-client';
+import { useBusinessToday } from '@/lib/business-day';
 import { formatCents, plural } from '@/lib/format';
 import { useModels } from '../api/get-models';
 import { useParts } from '../api/get-parts';
@@ -19,7 +20,7 @@ import { claimFormKeys } from '../api/claim-form-keys';
 import { reloadClaim } from '../api/get-claim';
 import { useAutosave } from '../hooks/use-autosave';
 import { useLiveValuation } from '../hooks/use-live-valuation';
-import { detailToValues, reasonSections, requiredReadings, submitFactsOf, todayUtc, type ClaimFormValues, type FormSection } from '../form-model';
+import { detailToValues, reasonSections, requiredReadings, submitFactsOf, type ClaimFormValues, type FormSection } from '../form-model';
 import { CheckSection } from './check-section';
 import { CoveragePanel } from './coverage-panel';
 import { DatesSection } from './dates-section';
@@ -128,10 +129,11 @@ export function ClaimEditor({ claim, renderValuation, submitClaim, onSubmitted, 
   };
 
   const values = useWatch({ control: form.control }) as ClaimFormValues;
+  const today = useBusinessToday();
   const live = useLiveValuation(basis.data, values, { repairCodes: codes, parts: catalogParts, specs });
   const lineCodes = new Set(values.laborLines?.map((l) => codes.find((c) => c.id === l?.repairCodeId)?.code).filter((c): c is string => !!c));
   const required = requiredReadings(specs, lineCodes);
-  const validation = validateForSubmit(submitFactsOf(values, claim, codes, specs, todayUtc()));
+  const validation = validateForSubmit(submitFactsOf(values, claim, codes, specs, today));
   const readingProblems: Record<string, string> = {};
   if (checked) for (const p of validation.problems) if (p.path.startsWith('readings.')) readingProblems[p.path] = p.message;
 

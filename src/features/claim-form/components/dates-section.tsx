@@ -1,8 +1,9 @@
 import type { UseFormReturn } from 'react-hook-form';
 import { Input } from '@/components/ui/input';
+import { useBusinessToday } from '@/lib/business-day';
 import { formatDate } from '@/lib/format';
 import { addDays } from '@shared/calculations/dates';
-import { fieldDomId, todayUtc, type ClaimFormValues } from '../form-model';
+import { fieldDomId, type ClaimFormValues } from '../form-model';
 import { FormField } from './form-field';
 import { FormSection } from './form-section';
 import type { ReturnInfo } from './reviewer-note';
@@ -12,7 +13,7 @@ const emptyToNull = (v: unknown) => (v === '' || v === undefined ? null : v);
 export function DatesSection({ form, note, filingWindowDays }: { form: UseFormReturn<ClaimFormValues>; note?: ReturnInfo | null; filingWindowDays: number | null }) {
   const { register, formState, watch } = form;
   const repairDate = watch('repairDate');
-  const today = todayUtc();
+  const today = useBusinessToday();
   return (
     <FormSection id="section-dates" title="Dates" note={note}>
       <div className="grid gap-4 sm:grid-cols-2">

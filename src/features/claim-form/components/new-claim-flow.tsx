@@ -4,13 +4,13 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Input } from '@/components/ui/input';
+import { useBusinessToday } from '@/lib/business-day';
 import { Spinner } from '@/components/ui/spinner';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { newIdempotencyKey } from '@/lib/idempotency-key';
 import { useCreateClaim } from '../api/create-claim';
 import { useUnitLookup } from '../api/lookup-unit';
 import { useDebouncedValue } from '../hooks/use-debounced-value';
-import { todayUtc } from '../form-model';
 import { FormField } from './form-field';
 import { UnitCard } from './unit-card';
 
@@ -21,6 +21,7 @@ const ISO = /^\d{4}-\d{2}-\d{2}$/;
  * then open the draft on the server and continue in the editor.
  */
 export function NewClaimFlow({ onCreated }: { onCreated: (claim: ClaimDetail) => void }) {
+  const today = useBusinessToday();
   const [serial, setSerial] = useState('');
   const [failureDate, setFailureDate] = useState('');
   const typed = serial.trim();
@@ -72,7 +73,7 @@ export function NewClaimFlow({ onCreated }: { onCreated: (claim: ClaimDetail) =>
             )}
           </FormField>
           <FormField id="cf-lookup-date" label="Failure date" hint="Coverage is judged on this day; today when left empty.">
-            {(p) => <Input {...p} type="date" value={failureDate} max={todayUtc()} onChange={(e) => setFailureDate(e.target.value)} />}
+            {(p) => <Input {...p} type="date" value={failureDate} max={today} onChange={(e) => setFailureDate(e.target.value)} />}
           </FormField>
         </CardBody>
       </Card>
