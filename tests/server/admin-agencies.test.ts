@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
-import { agencyTerms, invitations, organisations, users } from '../../server/db/schema/index';
+import { agencyTerms, organisations, users } from '../../server/db/schema/index';
 import { termsOn } from '../../server/modules/admin/agencies.queries';
 import { demoAccounts, flushMail, makeTestApp, TestClock, type TestApp } from '../factories/test-app';
 
@@ -74,16 +74,19 @@ describe('agencies and contract terms', () => {
     expect(again.body.error.code).toBe('has_admin');
   });
 
-  it('refuses a duplicate agency name and an admin address that already has an account, creating nothing', async () => {
+  it('refuses a duplicate agency name, creating nothing; an admin address that already has an account gets the same answer as any other, but no link', async () => {
     const before = t.db.select().from(organisations).all().length;
     const dup = await mfr.post('/api/admin/agencies').send({ name: 'lakeshore galley service', contactEmail: null, addressLine: null, city: null, region: null, postalCode: null, timeZone: 'America/Chicago', adminEmail: 'a@b.test' });
     expect(dup.status).toBe(400);
     expect(dup.body.error.fields.name).toBeTruthy();
     const taken = await mfr.post('/api/admin/agencies').send({ name: 'Ridgeback Range Repair', contactEmail: null, addressLine: null, city: null, region: null, postalCode: null, timeZone: 'America/Denver', adminEmail: demoAccounts.adminA });
-    expect(taken.status).toBe(409);
-    expect(taken.body.error.code).toBe('email_taken');
-    expect(t.db.select().from(organisations).all().length).toBe(before);
-    expect(t.db.select().from(invitations).where(eq(invitations.email, demoAccounts.adminA)).all()).toHaveLength(0);
+    expect(taken.status).toBe(201);
+    expect(taken.body.pendingInvitations).toEqual([expect.objectContaining({ email: demoAccounts.adminA, role: 'agency_admin', status: 'pending' })]);
+    expect(t.db.select().from(organisations).all().length).toBe(before + 1);
+    await flushMail(t);
+    const notice = t.sink.to(demoAccounts.adminA).at(-1)!;
+    expect(notice.subject).toBe('Someone tried to invite this address to Fieldproof');
+    expect(notice.text).not.toMatch(/accept-invitation/);
   });
 
   it('refuses contract terms whose dates overlap, with a clear message', async () => {

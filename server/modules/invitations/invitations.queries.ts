@@ -81,12 +81,12 @@ export function findInvitationByTokenHash(db: Db, tokenHash: string) {
     .get();
 }
 
-/** A pending (unexpired, unanswered) invitation to this address, in any organisation. */
-export function findPendingInvitationByEmail(db: Db, email: string, nowIso: string): Invitation | undefined {
+/** A pending (unexpired, unanswered) invitation to this address in this organisation (invitations_email_idx). */
+export function findPendingInvitationByEmail(db: Db, organisationId: string, email: string, nowIso: string): Invitation | undefined {
   return db
     .select()
     .from(invitations)
-    .where(and(eq(invitations.email, email), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, nowIso)))
+    .where(and(eq(invitations.email, email), eq(invitations.organisationId, organisationId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, nowIso)))
     .orderBy(asc(invitations.createdAt))
     .get();
 }

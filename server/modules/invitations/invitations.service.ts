@@ -58,15 +58,39 @@ export function createInvitationsService(deps: AppDeps) {
     });
   }
 
-  function refuseTakenOrPending(t: Db, email: string, exceptInvitationId?: string): void {
-    if (findUserByEmail(t, email)) throw new AppError(409, 'email_taken', emailTakenMessage, { email: emailTakenMessage });
-    const pending = findPendingInvitationByEmail(t, email, nowIso());
+  /**
+   * A pending invitation to this address in the same organisation is refused (the inviter sees it
+   * in the list). Pending invitations of other organisations and accounts are never mentioned.
+   */
+  function refusePending(t: Db, organisationId: string, email: string, exceptInvitationId?: string): void {
+    const pending = findPendingInvitationByEmail(t, organisationId, email, nowIso());
     if (pending && pending.id !== exceptInvitationId) throw new AppError(409, 'invitation_pending', invitationPendingMessage, { email: invitationPendingMessage });
+  }
+
+  /** The mail an address's owner gets when someone tries to invite an address that already has an account. */
+  function mailAttempt(t: Db, ctx: RequestContext, to: string, organisationName: string, role: Role): void {
+    enqueueMail(t, clock, {
+      to: [to],
+      subject: 'Someone tried to invite this address to Fieldproof',
+      text: [
+        `${ctx.user.name} tried to invite ${to} to join ${organisationName} on Fieldproof as ${roleLabels[role].toLowerCase()}.`,
+        '',
+        'This address already has a Fieldproof account, so no invitation was created and no link was sent.',
+        'They were not told that the address has an account, nor anything about it.',
+        '',
+        'An address belongs to one account. If you do want to join them, ask them to invite another address of yours.',
+        'If you did not expect this, you can ignore this e-mail.',
+      ].join('\n'),
+    });
   }
 
   /**
    * Writes an invitation, its audit row and its mail, inside the caller's transaction. The token
    * leaves only in the mail; the row keeps its SHA-256. Kick the outbox after the commit.
+   *
+   * An address that already has an account (in any organisation) gets the same row and the same
+   * answer, so the inviter cannot tell; but its token is never sent, so no link exists, and the
+   * address's owner is told by mail instead.
    */
   function inviteIn(t: Db, ctx: RequestContext, target: InviteTarget, ip: string): string {
     if (!ctx.ability.can('create', subject('Invitation', { organisationId: target.organisationId, role: target.role }))) {
@@ -74,7 +98,8 @@ export function createInvitationsService(deps: AppDeps) {
     }
     const org = t.select({ name: organisations.name, active: organisations.active }).from(organisations).where(eq(organisations.id, target.organisationId)).get();
     if (!org) throw new NotFoundError('No such organisation.');
-    refuseTakenOrPending(t, target.email);
+    refusePending(t, target.organisationId, target.email);
+    const taken = findUserByEmail(t, target.email) !== undefined;
     const id = newId();
     const { token, hash } = newToken();
     const now = clock.now();
@@ -90,9 +115,10 @@ export function createInvitationsService(deps: AppDeps) {
       recordId: id,
       outcome: 'success',
       ip,
-      detail: { email: target.email, role: target.role, expiresAt },
+      detail: { email: target.email, role: target.role, expiresAt, ...(taken ? { addressHasAccount: true } : {}) },
     });
-    mailInvitation(t, ctx, target.email, org.name, target.role, token, expiresAt);
+    if (taken) mailAttempt(t, ctx, target.email, org.name, target.role);
+    else mailInvitation(t, ctx, target.email, org.name, target.role, token, expiresAt);
     return id;
   }
 
@@ -119,13 +145,15 @@ export function createInvitationsService(deps: AppDeps) {
         const status = invitationStatus(inv, nowIso());
         if (status === 'accepted') throw new ConflictError('This invitation was already accepted.', 'invitation_accepted');
         if (status === 'revoked') throw new ConflictError('This invitation was revoked. Send a new one instead.', 'invitation_revoked');
-        refuseTakenOrPending(t, inv.email, inv.id);
+        refusePending(t, inv.organisationId, inv.email, inv.id);
         const org = t.select({ name: organisations.name }).from(organisations).where(eq(organisations.id, inv.organisationId)).get();
+        const taken = findUserByEmail(t, inv.email) !== undefined;
         const { token, hash } = newToken();
         const expiresAt = new Date(clock.now().getTime() + INVITATION_TTL_DAYS * DAY_MS).toISOString();
         t.update(invitations).set({ tokenHash: hash, expiresAt }).where(eq(invitations.id, inv.id)).run();
         writeAudit(t, clock, { actorId: ctx.user.id, organisationId: inv.organisationId, action: 'invitation.resend', recordType: 'Invitation', recordId: inv.id, outcome: 'success', ip, detail: { expiresAt } });
-        mailInvitation(t, ctx, inv.email, org?.name ?? 'Fieldproof', inv.role, token, expiresAt);
+        if (taken) mailAttempt(t, ctx, inv.email, org?.name ?? 'Fieldproof', inv.role);
+        else mailInvitation(t, ctx, inv.email, org?.name ?? 'Fieldproof', inv.role, token, expiresAt);
       });
       deps.outbox.kick();
       return getInvitationItem(db, id, nowIso()) as InvitationListItem;
