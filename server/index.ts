@@ -1,4 +1,4 @@
-import { modeOf, readEnvWithSecrets, type Env, type ReadEnvResult } from './env';
+import { isLoopbackHost, modeOf, readEnvWithSecrets, type Env, type ReadEnvResult } from './env';
 import { openDatabase } from './db/client';
 import { createApp } from './app';
 import { MailSink } from './lib/mail/sink';
@@ -49,6 +49,11 @@ async function main() {
   const server: Server = app.listen(env.PORT, env.HOST, () => {
     const address = server.address();
     const port = address && typeof address === 'object' ? address.port : env.PORT;
+    // HOST passed the loopback check by name; make sure the name did not resolve elsewhere.
+    if (mode === 'demo' && address && typeof address === 'object' && !isLoopbackHost(address.address)) {
+      console.error(`HOST ${env.HOST} resolved to ${address.address}, which is not a loopback address; demo mode listens on loopback only.`);
+      process.exit(1);
+    }
     console.log(startLine({ env, mode, port, smtpUrl: smtpUrl!, secretsFile: secrets.fromFile.length > 0 ? secrets.file : null }));
     if (env.SEED_DEMO) printDemoSignIns();
   });

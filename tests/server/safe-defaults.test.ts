@@ -172,6 +172,22 @@ describe('secrets are never constants of the code', () => {
     expect(JSON.parse(readFileSync(r.secrets.file, 'utf8')).SESSION_SECRET).toBeUndefined();
   });
 
+  it('several processes starting at once on one data folder end with one set of secrets', async () => {
+    const dir = tmp();
+    const script = `import('./server/env.ts').then((m) => { const e = m.readEnv({ DATABASE_PATH: ${JSON.stringify(join(dir, 'data', 'db.sqlite'))} }); console.log(e.SESSION_SECRET + ' ' + e.PASSWORD_PEPPER); })`;
+    const run = () =>
+      new Promise<string>((resolvePromise, reject) => {
+        const child = spawn(process.execPath, ['--import', 'tsx', '-e', script], { cwd: root, stdio: ['ignore', 'pipe', 'inherit'] });
+        let out = '';
+        child.stdout!.on('data', (c: Buffer) => (out += c.toString()));
+        child.on('exit', (code) => (code === 0 ? resolvePromise(out.trim()) : reject(new Error(`exit ${code}`))));
+      });
+    const answers = await Promise.all([run(), run(), run(), run()]);
+    expect(new Set(answers).size).toBe(1);
+    const stored = JSON.parse(readFileSync(join(dir, 'data', 'secrets.json'), 'utf8'));
+    expect(answers[0]).toBe(`${stored.SESSION_SECRET} ${stored.PASSWORD_PEPPER}`);
+  }, 60_000);
+
   it('refuses a secrets file other users can read', () => {
     const dir = tmp();
     const { secrets } = readEnvWithSecrets(base(dir));
