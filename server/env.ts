@@ -52,6 +52,8 @@ const baseSchema = z.object({
   UPLOAD_MAX_FILES_PER_CLAIM: z.coerce.number().int().min(1).default(40),
   UPLOAD_MAX_BYTES_PER_CLAIM: z.coerce.number().int().min(1).default(200 * 1024 * 1024),
   UPLOAD_AGENCY_QUOTA_BYTES: z.coerce.number().int().min(1).default(10 * 1024 * 1024 * 1024),
+  /** Uploads one user may have in progress at once (held as lease rows in the database). */
+  UPLOAD_MAX_CONCURRENT_PER_USER: z.coerce.number().int().min(1).max(50).default(2),
 });
 
 export const envSchema = baseSchema

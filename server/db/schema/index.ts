@@ -10,3 +10,4 @@ export * from './catalog-history';
 export * from './idempotency';
 export * from './approval-limits';
 export * from './throttle';
+export * from './uploads';

@@ -18,6 +18,7 @@ import { findReadableClaim } from '../claims/claims.queries';
 import { claimUsage, findReadableAttachment, listReadableAttachments } from './attachments.queries';
 import { createAttachmentsService, formatBytes, limitsView, toView, type IncomingFile, type UploadLimits } from './attachments.service';
 import { evidenceFlags } from './attachments.flags';
+import { createUploadLeases, type UploadLeaseHandle } from './attachments.leases';
 
 const ROUTE_ID = /^[A-Za-z0-9-]{1,64}$/;
 
@@ -131,6 +132,7 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
   const storage = opts.storage ?? storageFor(deps.env);
   const service = createAttachmentsService(deps, storage, opts.limits);
   const { limits } = service;
+  const leases = createUploadLeases(deps.db, deps.clock, deps.env.UPLOAD_MAX_CONCURRENT_PER_USER);
   const parseUpload = readMultipart(limits, 'files', limits.maxFilesPerRequest, uploadTempDir(deps.env));
   const r = Router();
 
@@ -158,12 +160,14 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
     const ctx = requireCtx(req);
     const claimId = String(req.params.id);
     const ip = clientAddress(req);
+    let lease: UploadLeaseHandle | null = null;
     try {
       service.uploadableClaim(ctx, claimId);
       const declared = Number(req.get('content-length') ?? 0);
       if (declared > limits.maxFileBytes * limits.maxFilesPerRequest + 64 * 1024) {
         throw new PayloadTooLargeError(`At most ${limits.maxFilesPerRequest} files of up to ${formatBytes(limits.maxFileBytes)} each can be sent at once.`);
       }
+      lease = leases.acquire(ctx.user.id);
       const files = await parseUpload(req, res);
       if (files.length === 0) throw new ValidationError('Attach at least one file in the field "files".', { files: 'No file was sent.' });
       const roles = rolesFor(req.body ?? {}, files.length);
@@ -177,6 +181,7 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
       throw e;
     } finally {
       await removeTempFiles(req);
+      lease?.release();
     }
   });
 
