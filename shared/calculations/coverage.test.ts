@@ -105,6 +105,22 @@ describe('coverage on a failure date', () => {
     expect(coverageForPart(c, null).source).toBe('standard');
   });
 
+  it('a component term shorter than the standard term governs its part (6-month gasket on a 24-month model)', () => {
+    // Common practice: a wear part carries a shorter parts term than the unit. Hand-worked dates:
+    // install 2024-01-15 + 6 months = 2024-07-15 (inclusive); the gasket's cap, ship 2024-01-02 + (6 + 30 - 24) = 12 months = 2025-01-02, is later.
+    // The standard parts term runs install + 24 months = 2026-01-15.
+    const model = { partsMonths: 24, laborMonths: 24, capMonthsFromShip: 30, installGraceDays: 90 };
+    const gasket = [{ partId: 'part-gasket', partsMonths: 6, label: 'Door gasket' }];
+    const at = (failureDate: string) => computeCoverage({ failureDate, shipDate: '2024-01-02', installDate: '2024-01-15', terms: model, componentTerms: gasket });
+    const month8 = at('2024-09-15'); // month 8 after installation
+    expect(month8.parts).toMatchObject({ covered: true, until: '2026-01-15' });
+    expect(coverageForPart(month8, 'part-gasket')).toMatchObject({ covered: false, until: '2024-07-15', source: 'component' });
+    expect(coverageForPart(month8, 'part-gasket').reason).toMatch(/Door gasket \(parts only\) not covered: the failure date 2024-09-15 is 62 days after the last covered day 2024-07-15/);
+    expect(coverageForPart(month8, 'part-other')).toMatchObject({ covered: true, source: 'standard' });
+    expect(coverageForPart(at('2024-07-15'), 'part-gasket').covered).toBe(true); // the last day is covered
+    expect(coverageForPart(at('2024-07-16'), 'part-gasket').covered).toBe(false);
+  });
+
   it('is not covered before the ship date; an install date before shipping counts from shipping', () => {
     const early = computeCoverage({ failureDate: '2024-01-09', shipDate: '2024-01-10', installDate: '2024-02-01', terms });
     expect(early.parts).toMatchObject({ covered: false, reasonCode: 'before_ship_date' });

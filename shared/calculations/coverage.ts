@@ -9,9 +9,10 @@
  *   ends (install 2024-01-31 + 1 month ends 2024-02-29).
  * - Coverage starts at the ship date: a unit that fails between shipping and
  *   installation (found at start-up) is covered; before the ship date it is not.
- * - A component may carry a longer parts-only term, counted from the same start;
- *   its ship-date cap is extended by the same months as its term, so the unit
- *   keeps the same allowance for time between shipping and installation:
+ * - A component may carry its own parts-only term, shorter or longer than the
+ *   standard parts term, counted from the same start; it governs that part. Its
+ *   ship-date cap moves by the same months as its term, so the unit keeps the same
+ *   allowance for time between shipping and installation:
  *   component cap = ship + component months + max(0, cap months - parts months).
  */
 import { CalculationInputError } from './errors';
@@ -197,14 +198,14 @@ export interface PartCoverage {
   reason: string;
 }
 
-/** Parts coverage for one part: a covering component term wins over the standard parts term. */
+/**
+ * Parts coverage for one part: a component term governs its part, whether it is shorter or
+ * longer than the standard parts term (a 6-month gasket on a 24-month model is covered for
+ * 6 months, a 60-month heating element for 60). Parts without a component term follow the
+ * standard parts term.
+ */
 export function coverageForPart(coverage: CoverageResult, partId: string | null | undefined): PartCoverage {
   const component = partId ? coverage.components.find((c) => c.partId === partId) : undefined;
-  if (component) {
-    const laterEnd = compareDates(component.until, coverage.parts.until) >= 0;
-    if (component.covered || (!coverage.parts.covered && laterEnd)) {
-      return { covered: component.covered, until: component.until, source: 'component', reason: component.reason };
-    }
-  }
+  if (component) return { covered: component.covered, until: component.until, source: 'component', reason: component.reason };
   return { covered: coverage.parts.covered, until: coverage.parts.until, source: 'standard', reason: coverage.parts.reason };
 }

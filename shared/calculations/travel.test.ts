@@ -1,10 +1,12 @@
 import { describe, it, expect } from 'vitest';
+import Decimal from 'decimal.js';
+import { CalculationInputError } from './errors';
+import { findOverlap, mileageRateOn, tenthCentsOf, type MileageRate } from './mileage';
+import { IRS_RATES } from './irs-rates.fixture';
 import fc from 'fast-check';
 import { distance as turfDistance } from '@turf/distance';
 import {
   haversineKm,
-  irsMileageRateFor,
-  IRS_BUSINESS_MILEAGE_RATES,
   MEAN_EARTH_RADIUS_KM,
   computeTravel,
   ROAD_DISTANCE_FACTOR,
@@ -52,26 +54,50 @@ describe('haversine great-circle distance', () => {
   });
 });
 
-describe('IRS business standard mileage rates', () => {
-  it('by year, with their notices', () => {
-    expect(irsMileageRateFor('2023-06-01').rate).toMatchObject({ year: 2023, centsPerMile: 65.5, notice: 'IRS Notice 2023-03', recalled: false }); // IRS Notice 2023-03: 65.5 cents
-    expect(irsMileageRateFor('2024-01-01').rate).toMatchObject({ year: 2024, centsPerMile: 67, notice: 'IRS Notice 2024-08', recalled: false }); // IRS Notice 2024-08: 67 cents
-    expect(irsMileageRateFor('2025-12-31').rate).toMatchObject({ year: 2025, centsPerMile: 70, notice: 'IRS Notice 2025-5', recalled: false }); // IRS Notice 2025-5: 70 cents
-    // IRS Notice 2026-10: 72.5 cents, recalled from secondary reports (not verified against the notice text)
-    expect(irsMileageRateFor('2026-03-01').rate).toMatchObject({ year: 2026, centsPerMile: 72.5, notice: 'IRS Notice 2026-10', recalled: true });
-    expect(irsMileageRateFor('2026-03-01').note).toMatch(/recalled/);
-    expect(IRS_BUSINESS_MILEAGE_RATES.map((r) => r.year)).toEqual([2023, 2024, 2025, 2026]);
+describe('dated mileage rates', () => {
+  const contract: TravelContract = { travelRateCents: 0, mileageRateCents: null, maxRoundTripMiles: null, maxTravelHours: null };
+  const hundredMiles = { enteredRoundTripKm: 160.9344, travelHours: 0 }; // 100 mi exactly (NIST SP 811 B.8)
+  const at = (repairDate: string) => computeTravel(hundredMiles, { base: null, site: null, repairDate, mileageRates: IRS_RATES }, contract, { currency: 'USD' });
+
+  it('a 2022 repair takes 58.5 or 62.5 cents by its date, not 65.5', () => {
+    expect(at('2022-03-15').distance.amountCents).toBe(5850); // IRS Notice 2022-03: 100 mi x 58.5 cents
+    expect(at('2022-06-30').distance.amountCents).toBe(5850); // last day of the first-half 2022 rate, inclusive
+    expect(at('2022-07-01').distance.amountCents).toBe(6250); // IRS Announcement 2022-13 (IR-2022-124): 62.5 cents from 2022-07-01
+    expect(at('2022-07-01').distance.datedRate?.source).toBe('IRS Announcement 2022-13');
   });
 
-  it('uses the nearest known year for other years and says so', () => {
-    const before = irsMileageRateFor('2021-05-05');
-    expect(before.exactYear).toBe(false);
-    expect(before.rate.year).toBe(2023); // IRS Notice 2023-03 is the earliest on file
-    expect(before.note).toMatch(/No IRS rate is on file for 2021; the nearest known year, 2023/);
-    const after = irsMileageRateFor('2030-01-01');
-    expect(after.rate.year).toBe(2026);
-    expect(after.exactYear).toBe(false);
-    expect(irsMileageRateFor('2024-07-04').exactYear).toBe(true);
+  it('each year by its notice', () => {
+    expect(at('2023-06-01').distance.centsPerMile).toBe(65.5); // IRS Notice 2023-03
+    expect(at('2024-01-01').distance.centsPerMile).toBe(67); // IRS Notice 2024-08
+    expect(at('2025-12-31').distance.centsPerMile).toBe(70); // IRS Notice 2025-5
+    expect(at('2026-03-01').distance.centsPerMile).toBe(72.5); // IRS Notice 2026-10, recalled (see the table above)
+    expect(at('2023-06-01').explanation.join(' ')).toMatch(/IRS Notice 2023-03/);
+  });
+
+  it('a repair date with no rate in force is an error, never the nearest year', () => {
+    expect(() => at('2021-05-05')).toThrow(CalculationInputError);
+    expect(() => at('2021-05-05')).toThrow(/No mileage rate is in force on the repair date 2021-05-05 for USD/);
+    expect(() => at('2027-01-01')).toThrow(/No mileage rate is in force/);
+    expect(mileageRateOn(IRS_RATES, '2021-12-31', 'USD')).toBeNull();
+    expect(mileageRateOn(IRS_RATES, '2024-07-04', 'CAD')).toBeNull();
+  });
+
+  it('a per-kilometre rate for another currency: km x rate', () => {
+    // arbitrary test rate of 61.5 cents per km; 100 mi = 160.9344 km (NIST SP 811 B.8)
+    const cad: MileageRate = { effectiveFrom: '2025-01-01', effectiveTo: null, currency: 'CAD', unit: 'km', rateTenthCents: 615, source: 'test rate' };
+    const t = computeTravel(hundredMiles, { base: null, site: null, repairDate: '2025-04-01', mileageRates: [cad, ...IRS_RATES] }, contract, { currency: 'CAD' });
+    // 160.9344 km x 61.5 = 9897.4656 cents -> 9897 (half-up; decimal.js agrees)
+    expect(t.distance.amountCents).toBe(new Decimal('160.9344').times('61.5').toDecimalPlaces(0, Decimal.ROUND_HALF_UP).toNumber());
+    expect(t.distance.amountCents).toBe(9897);
+    expect(t.distance.explanation.join(' ')).toMatch(/cents per kilometre/);
+  });
+
+  it('finds overlapping periods of one currency', () => {
+    expect(findOverlap(IRS_RATES)).toBeNull();
+    const extra = { effectiveFrom: '2024-12-01', effectiveTo: null, currency: 'USD', unit: 'mi' as const };
+    expect(findOverlap([...IRS_RATES, extra])?.map((r) => r.effectiveFrom)).toEqual(['2024-01-01', '2024-12-01']);
+    expect(tenthCentsOf('65.5')).toBe(655);
+    expect(() => tenthCentsOf('65.55')).toThrow(/one decimal place/);
   });
 });
 
@@ -117,10 +143,10 @@ describe('travel floor, plausibility and caps', () => {
     expect(t.explanation.join(' ')).toMatch(/floor check was not made/);
   });
 
-  it('caps distance and time and pays the IRS rate when the contract has none', () => {
+  it('caps distance and time and pays the dated IRS rate when the contract has none', () => {
     const t = computeTravel(
       { enteredRoundTripKm: 321.8688, travelHours: 3.5 }, // 321.8688 km = 200 mi exactly (NIST SP 811 B.8: 1 mi = 1.609344 km)
-      { base: null, site: null, repairDate: '2024-09-10' },
+      { base: null, site: null, repairDate: '2024-09-10', mileageRates: IRS_RATES },
       { travelRateCents: 4000, mileageRateCents: null, maxRoundTripMiles: 150, maxTravelHours: 3 },
     );
     expect(t.distance.enteredMiles).toBe(200); // NIST SP 811 B.8

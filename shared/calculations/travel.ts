@@ -13,14 +13,15 @@
  *   is flagged; the 10 km of slack keeps short trips through street grids from
  *   being flagged.
  * - Payable distance = min(entered, contract cap); payable time = min(entered, cap).
- * - Mileage at the contract's rate; without one, the IRS business standard mileage
- *   rate of the repair date's year.
+ * - Mileage at the contract's rate; without one, the dated mileage rate in force on the
+ *   repair date for the agency's currency (per mile or per kilometre, see mileage.ts).
+ *   No rate in force is an input error, never the nearest year's rate.
  * - Distance and time are two lines, each rounded half-up once to whole cents.
  */
 import { CalculationInputError } from './errors';
 import { cmp, div, mul, product, rational, toNumber, type Rational } from './exact';
 import { roundRationalToCents } from './money';
-import { parseIsoDate } from './dates';
+import { centsPerMileExact, centsPerUnitExact, mileageRateOn, missingMileageRateMessage, type MileageRate } from './mileage';
 import { money, num, rateText } from './format';
 import { assertNonNegative, assertRateCents } from './labor';
 
@@ -59,44 +60,6 @@ export function haversineKm(a: LatLon, b: LatLon, radiusKm: number = MEAN_EARTH_
   return 2 * radiusKm * Math.atan2(Math.sqrt(s), Math.sqrt(1 - s));
 }
 
-export interface IrsMileageRate {
-  year: number;
-  /** Cents per mile (may carry a half cent). */
-  centsPerMile: number;
-  notice: string;
-  /** True when the figure was taken from secondary reports, not the notice text. */
-  recalled: boolean;
-}
-
-/** IRS business standard mileage rates by calendar year. */
-export const IRS_BUSINESS_MILEAGE_RATES: readonly IrsMileageRate[] = [
-  { year: 2023, centsPerMile: 65.5, notice: 'IRS Notice 2023-03', recalled: false },
-  { year: 2024, centsPerMile: 67, notice: 'IRS Notice 2024-08', recalled: false },
-  { year: 2025, centsPerMile: 70, notice: 'IRS Notice 2025-5', recalled: false },
-  { year: 2026, centsPerMile: 72.5, notice: 'IRS Notice 2026-10', recalled: true },
-];
-
-export interface IrsMileageLookup {
-  rate: IrsMileageRate;
-  /** False when the repair year is not in the table and the nearest year was used. */
-  exactYear: boolean;
-  note: string;
-}
-
-export function irsMileageRateFor(date: string): IrsMileageLookup {
-  const { year } = parseIsoDate(date, 'repairDate');
-  let best = IRS_BUSINESS_MILEAGE_RATES[0];
-  for (const r of IRS_BUSINESS_MILEAGE_RATES) {
-    if (Math.abs(r.year - year) < Math.abs(best.year - year)) best = r;
-  }
-  const exactYear = best.year === year;
-  const recalled = best.recalled ? ' (figure recalled from secondary reports, not checked against the notice)' : '';
-  const note = exactYear
-    ? `IRS business standard mileage rate for ${year}: ${num(best.centsPerMile)} cents per mile, ${best.notice}${recalled}.`
-    : `No IRS rate is on file for ${year}; the nearest known year, ${best.year}, is used: ${num(best.centsPerMile)} cents per mile, ${best.notice}${recalled}.`;
-  return { rate: best, exactYear, note };
-}
-
 export interface TravelInput {
   id?: string;
   enteredRoundTripKm: number;
@@ -106,7 +69,7 @@ export interface TravelInput {
 export interface TravelContract {
   /** Cents per hour of travel time. */
   travelRateCents: number;
-  /** Cents per mile (may carry a fraction, e.g. 65.5); null: the IRS rate of the repair year. */
+  /** Cents per mile (may carry a fraction, e.g. 65.5); null: the dated mileage rate in force on the repair date. */
   mileageRateCents: number | null;
   maxRoundTripMiles: number | null;
   maxTravelHours: number | null;
@@ -116,6 +79,8 @@ export interface TravelContext {
   base: LatLon | null;
   site: LatLon | null;
   repairDate: string;
+  /** The dated mileage rates (for the agency's currency); used when the contract has no rate. */
+  mileageRates?: readonly MileageRate[] | null;
 }
 
 export type TravelFlagCode = 'travel_over_cap' | 'travel_distance_implausible';
@@ -129,9 +94,13 @@ export interface TravelDistanceResult {
   payableKm: number;
   payableMiles: number;
   boundBy: 'entered' | 'cap';
+  /** Cents per mile (a per-km rate converted exactly). */
   centsPerMile: number;
-  rateSource: 'contract' | 'irs';
-  irs: IrsMileageLookup | null;
+  /** The same, as an exact fraction (for reviewer adjustments by distance). */
+  centsPerMileExact: Rational;
+  rateSource: 'contract' | 'dated';
+  /** The dated rate used, when the contract has none. */
+  datedRate: MileageRate | null;
   requestedCents: number;
   amountCents: number;
   flags: TravelFlagCode[];
@@ -220,25 +189,35 @@ export function computeTravel(
     }
   }
 
-  let centsPerMile: number;
-  let rateSource: 'contract' | 'irs';
-  let irs: IrsMileageLookup | null = null;
+  let perMile: Rational;
+  let rateSource: 'contract' | 'dated';
+  let datedRate: MileageRate | null = null;
+  let rateLine: string;
   if (contract.mileageRateCents != null) {
-    centsPerMile = assertNonNegative(contract.mileageRateCents, 'contract.mileageRateCents');
+    perMile = rational(assertNonNegative(contract.mileageRateCents, 'contract.mileageRateCents'));
     rateSource = 'contract';
-    dExpl.push(`Mileage rate from the contract terms: ${num(centsPerMile)} cents per mile.`);
+    dExpl.push(`Mileage rate from the contract terms: ${num(perMile)} cents per mile.`);
+    rateLine = `${num(payableMilesExact, 4)} mi x ${rateText(perMile, currency)}/mi`;
   } else {
-    irs = irsMileageRateFor(context.repairDate);
-    centsPerMile = irs.rate.centsPerMile;
-    rateSource = 'irs';
-    dExpl.push(`The contract has no mileage rate. ${irs.note}`);
+    const cur = currency ?? 'USD';
+    datedRate = mileageRateOn(context.mileageRates, context.repairDate, cur);
+    if (!datedRate) throw new CalculationInputError('repairDate', missingMileageRateMessage(context.repairDate, cur));
+    perMile = centsPerMileExact(datedRate);
+    rateSource = 'dated';
+    const perUnit = centsPerUnitExact(datedRate);
+    dExpl.push(
+      `The contract has no mileage rate; the rate in force on ${context.repairDate} is ${num(perUnit)} cents per ${datedRate.unit === 'km' ? 'kilometre' : 'mile'} (${datedRate.source}, ${datedRate.effectiveFrom} to ${datedRate.effectiveTo ?? 'further notice'}).`,
+    );
+    rateLine =
+      datedRate.unit === 'km'
+        ? `${num(mul(payableMilesExact, KM_PER_MILE_EXACT), 4)} km x ${rateText(perUnit, currency)}/km`
+        : `${num(payableMilesExact, 4)} mi x ${rateText(perUnit, currency)}/mi`;
   }
-  const distanceExact = mul(payableMilesExact, rational(centsPerMile));
+  const centsPerMile = toNumber(perMile);
+  const distanceExact = mul(payableMilesExact, perMile);
   const distanceCents = roundRationalToCents(distanceExact);
-  const distanceRequestedCents = roundRationalToCents(mul(enteredMilesExact, rational(centsPerMile)));
-  dExpl.push(
-    `${num(payableMilesExact, 4)} mi x ${rateText(centsPerMile, currency)}/mi = ${rateText(distanceExact, currency)}, rounded half-up to ${money(distanceCents, currency)}.`,
-  );
+  const distanceRequestedCents = roundRationalToCents(mul(enteredMilesExact, perMile));
+  dExpl.push(`${rateLine} = ${rateText(distanceExact, currency)}, rounded half-up to ${money(distanceCents, currency)}.`);
   const payableKm = toNumber(mul(payableMilesExact, KM_PER_MILE_EXACT));
 
   // ---- time
@@ -275,8 +254,9 @@ export function computeTravel(
       payableMiles: toNumber(payableMilesExact),
       boundBy: dBound,
       centsPerMile,
+      centsPerMileExact: perMile,
       rateSource,
-      irs,
+      datedRate,
       requestedCents: distanceRequestedCents,
       amountCents: distanceCents,
       flags: dFlags,

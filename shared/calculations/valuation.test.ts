@@ -1,8 +1,10 @@
 import { describe, it, expect } from 'vitest';
+import Decimal from 'decimal.js';
 import { valueClaim, type ValuationInput, type ValuationLine } from './valuation';
 import { FLAG_CODES, FLAG_INFO } from './flags';
 import { CalculationInputError } from './errors';
 import { MEAN_EARTH_RADIUS_KM } from './travel';
+import { IRS_RATES } from './irs-rates.fixture';
 
 // Hand-worked whole claims. Each expected figure is worked out in the comment
 // beside it from the rules: labor = min(worked, allowance) x rate x overtime
@@ -174,6 +176,25 @@ describe('hand-worked whole claims', () => {
     expect(codes(v)).toEqual([]);
   });
 
+  it('a whole-trip travel amount keeps distance and time apart', () => {
+    // distance 50 mi x 65 cents = 3,250; time 1.5 h x 5,000 = 7,500; together 10,750.
+    // The reviewer approves 8,000 for the whole trip: distance 8,000 x 3,250 / 10,750 = 2,418.60... -> 2,419 (half-up), time 8,000 - 2,419 = 5,581.
+    const v = valueClaim(
+      claim({
+        labor: [{ id: 'L1', repairCode: { code: 'R-100', allowedHours: 2 }, hoursWorked: 1, overtime: false }],
+        travel: { id: 'T1', enteredRoundTripKm: 80.4672, travelHours: 1.5 }, // 80.4672 km = 50 mi (NIST SP 811 B.8)
+        adjustments: [{ lineId: 'T1', amountCents: 8000, reason: 'Shorter route' }],
+      }),
+    );
+    const ref = new Decimal(8000).times(3250).dividedBy(10750).toDecimalPlaces(0, Decimal.ROUND_HALF_UP).toNumber(); // decimal.js
+    expect(line(v, 'T1-distance').claimedCents).toBe(3250);
+    expect(line(v, 'T1-time').claimedCents).toBe(7500);
+    expect(line(v, 'T1-distance').approvedCents).toBe(ref);
+    expect(line(v, 'T1-distance').approvedCents).toBe(2419);
+    expect(line(v, 'T1-time').approvedCents).toBe(5581);
+    expect(v.totals.approved.travelCents).toBe(8000);
+  });
+
   it('approved totals take the reviewer adjustments per line', () => {
     const v = valueClaim(
       claim({
@@ -245,11 +266,11 @@ describe('flags', () => {
     expect(v.flags[0].reason).toMatch(/Below the floor/);
   });
 
-  it('IRS mileage rate of the repair year when the contract has none', () => {
-    const v = valueClaim(laborOnly({ contract: { ...claim().contract, mileageRateCents: null }, travel: { enteredRoundTripKm: 80.4672, travelHours: 1 } }));
+  it('dated IRS mileage rate in force on the repair date when the contract has none', () => {
+    const v = valueClaim(laborOnly({ mileageRates: IRS_RATES, contract: { ...claim().contract, mileageRateCents: null }, travel: { enteredRoundTripKm: 80.4672, travelHours: 1 } }));
     const d = line(v, 'travel-distance');
     expect(d.rateCents).toBe(67); // IRS Notice 2024-08: 67 cents per mile for 2024
-    expect(d.inputs.irsNotice).toBe('IRS Notice 2024-08');
+    expect(d.inputs.mileageRateNotice).toBe('IRS Notice 2024-08');
     expect(d.claimedCents).toBe(3350); // 50 mi x 67 = 3,350 cents
   });
 

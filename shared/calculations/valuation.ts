@@ -26,7 +26,8 @@ import { minorUnits, roundRationalToCents, assertCents } from './money';
 import { computePartLine, type PartLineInput, type PartsContract } from './parts';
 import { judgeReading, type ReadingJudgement, type ReadingSpec } from './readings';
 import { computeTravel, kmToMilesExact, type LatLon, type TravelContract, type TravelInput } from './travel';
-import { mul, product, rational } from './exact';
+import { mul, product, rational, type Rational } from './exact';
+import type { MileageRate } from './mileage';
 
 export const REPEAT_REPAIR_WINDOW_DAYS = 90;
 
@@ -106,6 +107,8 @@ export interface ValuationInput {
   readings?: ValuationReading[];
   priorRepairs?: PriorRepair[];
   adjustments?: LineAdjustment[];
+  /** Dated mileage rates for the agency's currency, used when the contract has no rate. */
+  mileageRates?: readonly MileageRate[] | null;
 }
 
 export type ValuationLineKind = 'labor' | 'travel_distance' | 'travel_time' | 'part';
@@ -183,6 +186,40 @@ function optionalNonNegative(x: unknown, field: string): number | null {
   return x;
 }
 
+/**
+ * A reviewer's amount for the whole trip (lineId = the travel id, or "travel") is split over
+ * the distance and time lines in proportion to their claimed amounts (requested amounts when
+ * both claimed are 0): distance = total x distance / (distance + time), rounded half-up once,
+ * time = total - distance, so the two lines add up to the reviewer's amount and each keeps
+ * its own meaning.
+ */
+function splitTripAdjustments(adjustments: readonly LineAdjustment[], lines: readonly ValuationLine[], travel: TravelInput | null | undefined, currency: string): LineAdjustment[] {
+  if (!travel) return [...adjustments];
+  const prefix = hasText(travel.id) ? travel.id : 'travel';
+  const out: LineAdjustment[] = [];
+  for (const a of adjustments) {
+    if (!a || typeof a !== 'object' || a.lineId !== prefix || a.amountCents === undefined || a.amountCents === null) {
+      out.push(a);
+      continue;
+    }
+    const total = assertCents(a.amountCents, 'adjustments.amountCents');
+    if (total < 0) throw new CalculationInputError('adjustments.amountCents', 'an approved amount can not be negative');
+    const d = lines.find((l) => l.id === `${prefix}-distance`)!;
+    const t = lines.find((l) => l.id === `${prefix}-time`)!;
+    let wd = d.claimedCents;
+    let wt = t.claimedCents;
+    if (wd + wt === 0) {
+      wd = d.requestedCents;
+      wt = t.requestedCents;
+    }
+    const distance = wd + wt === 0 ? total : roundRationalToCents({ n: BigInt(total) * BigInt(wd), d: BigInt(wd + wt) });
+    const note = `${a.reason} (the reviewer's ${money(total, currency)} for the whole trip, split over distance and time in proportion to their amounts)`;
+    out.push({ lineId: `${prefix}-distance`, amountCents: distance, reason: note });
+    out.push({ lineId: `${prefix}-time`, amountCents: total - distance, reason: note });
+  }
+  return out;
+}
+
 export function valueClaim(input: ValuationInput): Valuation {
   if (!input || typeof input !== 'object') throw new CalculationInputError('input', 'valuation input is required');
   const currency = input.currency;
@@ -256,18 +293,18 @@ export function valueClaim(input: ValuationInput): Valuation {
   });
 
   // ---- travel
-  let travelDistanceRate = 0;
+  let travelDistanceRate: Rational = { n: 0n, d: 1n };
   if (input.travel) {
     const t = computeTravel(
       input.travel,
-      { base: input.base ?? null, site: input.site ?? null, repairDate: input.repairDate },
+      { base: input.base ?? null, site: input.site ?? null, repairDate: input.repairDate, mileageRates: input.mileageRates ?? null },
       contract,
       opts,
     );
     const covered = coverage.labor.covered;
     const prefix = hasText(input.travel.id) ? input.travel.id : 'travel';
     const uncoveredNote = `Travel follows labor coverage. ${coverage.labor.reason} Shown, valued at 0.`;
-    travelDistanceRate = t.distance.centsPerMile;
+    travelDistanceRate = t.distance.centsPerMileExact;
     const dBinding: string[] = [];
     if (t.distance.boundBy === 'cap') dBinding.push(`contract cap of ${num(contract.maxRoundTripMiles ?? 0)} mi round trip`);
     if (!covered) dBinding.push(`labor coverage: last covered day ${coverage.labor.until}`);
@@ -289,9 +326,9 @@ export function valueClaim(input: ValuationInput): Valuation {
         maxRoundTripMiles: contract.maxRoundTripMiles ?? null,
         mileageRateCents: t.distance.centsPerMile,
         mileageRateSource: t.distance.rateSource,
-        irsNotice: t.distance.irs ? t.distance.irs.rate.notice : null,
+        mileageRateNotice: t.distance.datedRate ? t.distance.datedRate.source : null,
       },
-      rule: 'payable miles = min(entered round trip, contract cap); amount = miles x mileage rate (contract, else IRS rate of the repair year), rounded half-up once',
+      rule: 'payable miles = min(entered round trip, contract cap); amount = miles x mileage rate (contract, else the dated rate in force on the repair date), rounded half-up once',
       binding: dBinding,
       requestedCents: t.distance.requestedCents,
       claimedCents: covered ? t.distance.amountCents : 0,
@@ -383,7 +420,7 @@ export function valueClaim(input: ValuationInput): Valuation {
   // ---- reviewer adjustments
   for (const l of lines) l.approvedCents = l.claimedCents;
   const byId = new Map(lines.map((l) => [l.id, l]));
-  (input.adjustments ?? []).forEach((a, i) => {
+  (splitTripAdjustments(input.adjustments ?? [], lines, input.travel, currency)).forEach((a, i) => {
     const f = `adjustments.${i}`;
     if (!a || typeof a !== 'object') throw new CalculationInputError(f, 'adjustment must be an object');
     const line = byId.get(a.lineId);
@@ -412,7 +449,7 @@ export function valueClaim(input: ValuationInput): Valuation {
       text = `Reviewer approved ${num(hours)} h: ${num(hours)} h x ${money(line.rateCents, currency)}/h = ${rateText(exact, currency)}, rounded half-up to ${money(approved, currency)}`;
     } else if (line.kind === 'travel_distance' && distanceKm !== null) {
       const miles = kmToMilesExact(distanceKm);
-      const exact = mul(miles, rational(travelDistanceRate));
+      const exact = mul(miles, travelDistanceRate);
       approved = roundRationalToCents(exact);
       text = `Reviewer approved ${num(distanceKm, 1)} km (${num(miles, 4)} mi): x ${rateText(travelDistanceRate, currency)}/mi = ${rateText(exact, currency)}, rounded half-up to ${money(approved, currency)}`;
     } else if (line.kind === 'part' && quantity !== null) {

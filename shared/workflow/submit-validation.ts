@@ -22,6 +22,12 @@ export interface SubmitFacts {
   /** Readings the model's specs require for the claim's repair codes. */
   requiredReadings?: ReadonlyArray<{ key: string; label: string; phase: 'before' | 'after' }>;
   readings?: ReadonlyArray<{ key: string; phase: 'before' | 'after' }>;
+  /** The unit's ship date; a claim dated before it is refused. */
+  shipDate?: string | null;
+  /** False when the agency has no contract terms in force on the repair date (undefined: not known here). */
+  contractTermsInForce?: boolean;
+  /** Why the rules could not value the claim although its facts are complete (e.g. no mileage rate in force). */
+  valuationProblems?: ReadonlyArray<{ path: string; message: string }>;
 }
 
 export type SubmitProblemCode =
@@ -33,7 +39,10 @@ export type SubmitProblemCode =
   | 'no_lines'
   | 'text_missing'
   | 'evidence_missing'
-  | 'reading_missing';
+  | 'reading_missing'
+  | 'before_ship_date'
+  | 'no_contract_terms'
+  | 'not_valued';
 
 export interface SubmitProblem {
   path: string;
@@ -84,6 +93,16 @@ export function validateForSubmit(facts: SubmitFacts): SubmitValidation {
   if (good.failureDate && good.repairDate && good.repairDate < good.failureDate) {
     add('repairDate', 'repair_before_failure', 'The repair date cannot be before the failure date.');
   }
+  if (facts.shipDate) {
+    for (const [key, words] of dates) {
+      const v = good[key];
+      if (v && v < facts.shipDate) add(key, 'before_ship_date', `The ${words} ${v} is before the unit shipped on ${facts.shipDate}; check the date or the serial number.`);
+    }
+  }
+  if (good.repairDate && facts.contractTermsInForce === false) {
+    add('repairDate', 'no_contract_terms', `The agency has no contract terms in force on the repair date ${good.repairDate}, so the claim cannot be valued. Ask the manufacturer to record the terms for that date.`);
+  }
+  for (const p of facts.valuationProblems ?? []) add(p.path, 'not_valued', p.message);
 
   if (facts.laborLines.length === 0 && facts.partLines.length === 0) {
     add('laborLines', 'no_lines', 'Add at least one labor or part line.');

@@ -40,3 +40,27 @@ export const repairCodeAllowances = sqliteTable(
 
 export type PartPrice = typeof partPrices.$inferSelect;
 export type RepairCodeAllowance = typeof repairCodeAllowances.$inferSelect;
+
+/**
+ * Mileage rates as dated data the manufacturer admin keeps: in force from..to (inclusive; to
+ * null = until further notice), per currency, per mile or per kilometre, in tenths of a cent
+ * (655 = 65.5 cents) with the published source of the figure. Used when an agency's contract
+ * terms carry no mileage rate of their own. Periods of one currency never overlap.
+ */
+export const mileageRates = sqliteTable(
+  'mileage_rates',
+  {
+    id: text('id').primaryKey(),
+    currency: text('currency').notNull(),
+    unit: text('unit', { enum: ['mi', 'km'] }).notNull(),
+    effectiveFrom: text('effective_from').notNull(),
+    effectiveTo: text('effective_to'),
+    rateTenthCents: integer('rate_tenth_cents').notNull(),
+    source: text('source').notNull(),
+    createdBy: text('created_by').references(() => users.id),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('mileage_rates_currency_from_uq').on(t.currency, t.effectiveFrom)],
+);
+
+export type MileageRateRow = typeof mileageRates.$inferSelect;

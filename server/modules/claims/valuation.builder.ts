@@ -14,6 +14,7 @@ import {
   claimTravel,
   claims,
   componentTerms,
+  mileageRates,
   models,
   organisations,
   parts,
@@ -28,6 +29,7 @@ import {
 import { valueClaim, type LineAdjustment, type Valuation, type ValuationInput } from '@shared/calculations/valuation';
 import { isCalculationInputError } from '@shared/calculations/errors';
 import { KM_PER_MILE } from '@shared/calculations/travel';
+import type { MileageRate } from '@shared/calculations/mileage';
 import { areCompatible } from '@shared/calculations/units';
 import { businessDay, DEFAULT_TIME_ZONE } from '@shared/calculations/business-day';
 import { validateForSubmit, type SubmitFacts, type SubmitValidation } from '@shared/workflow/submit-validation';
@@ -56,6 +58,8 @@ export interface ClaimInputs {
   attachmentRoles: string[];
   technician: { id: string; name: string; certifications: { familyId: string; validFrom: string; validTo: string | null }[] };
   priorRepairs: { claimId: string; claimNumber: string; serial: string; repairCode: string; repairDate: string }[];
+  /** The dated mileage rates of the claim's currency (a small table, read whole). */
+  mileageRates: MileageRate[];
 }
 
 /** Loads every row the computation of one claim needs, in a handful of indexed reads. */
@@ -167,6 +171,13 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
           .filter((r): r is { claimId: string; claimNumber: string; serial: string; repairCode: string; repairDate: string } => r.repairDate !== null)
       : [];
 
+  const rates: MileageRate[] = db
+    .select({ effectiveFrom: mileageRates.effectiveFrom, effectiveTo: mileageRates.effectiveTo, currency: mileageRates.currency, unit: mileageRates.unit, rateTenthCents: mileageRates.rateTenthCents, source: mileageRates.source })
+    .from(mileageRates)
+    .where(eq(mileageRates.currency, claim.currency))
+    .orderBy(asc(mileageRates.effectiveFrom))
+    .all();
+
   return {
     claim,
     timeZone: agency?.timeZone ?? DEFAULT_TIME_ZONE,
@@ -183,6 +194,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
     attachmentRoles,
     technician: { id: claim.technicianId, name: tech?.name ?? '', certifications: certs },
     priorRepairs,
+    mileageRates: rates,
   };
 }
 
@@ -226,9 +238,8 @@ export function adjustmentsOf(inputs: ClaimInputs): { adjustments: LineAdjustmen
   if (t) {
     const reason = hasText(t.adjustmentReason) ? t.adjustmentReason : null;
     if (reason && t.approvedAmountCents !== null) {
-      const note = `travel approved at ${t.approvedAmountCents} cents in all: ${reason}`;
-      adjustments.push({ lineId: `${t.id}-distance`, amountCents: t.approvedAmountCents, reason: note });
-      adjustments.push({ lineId: `${t.id}-time`, amountCents: 0, reason: note });
+      // one amount for the whole trip: the valuation splits it over distance and time
+      adjustments.push({ lineId: t.id, amountCents: t.approvedAmountCents, reason });
     } else if (reason) halfMade.push('travel');
   }
   return { adjustments, halfMade };
@@ -291,6 +302,7 @@ export function valuationInputOf(inputs: ClaimInputs, asOf: AsOf): { input: Valu
       .map((r) => ({ id: r.id, value: r.value, unit: r.unit, spec: { unit: r.spec!.unit, nominal: r.spec!.nominal, tolerance: r.spec!.tolerance, phase: r.phase, label: r.spec!.label } })),
     priorRepairs: inputs.priorRepairs,
     adjustments,
+    mileageRates: inputs.mileageRates,
   };
   return { input, problems };
 }
@@ -320,7 +332,7 @@ export function buildValuationInput(db: Db, claimId: string, asOf: AsOf): { inpu
 }
 
 /** The facts the submit guard checks. */
-export function submitFactsOf(inputs: ClaimInputs, asOf: AsOf): SubmitFacts {
+export function submitFactsOf(inputs: ClaimInputs, asOf: AsOf, valuationProblems: BuildProblem[] = []): SubmitFacts {
   const codes = new Set(inputs.labor.map((l) => l.code));
   const requiredReadings: Array<{ key: string; label: string; phase: 'before' | 'after' }> = [];
   for (const s of inputs.specs) {
@@ -342,6 +354,9 @@ export function submitFactsOf(inputs: ClaimInputs, asOf: AsOf): SubmitFacts {
     attachments: inputs.attachmentRoles.map((role) => ({ role })),
     requiredReadings,
     readings: inputs.readings.map((r) => ({ key: r.key, phase: r.phase })),
+    shipDate: inputs.unit?.shipDate ?? null,
+    contractTermsInForce: c.repairDate ? inputs.terms !== null : undefined,
+    valuationProblems,
   };
 }
 
@@ -369,7 +384,9 @@ export interface ClaimEvaluation {
 export function evaluateClaim(db: Db, claim: Claim, asOf: AsOf): ClaimEvaluation {
   const inputs = loadClaimInputs(db, claim);
   const today = agencyDayOf(inputs, asOf);
-  const validation = validateForSubmit(submitFactsOf(inputs, today));
   const valuation = valueFromInputs(inputs, today);
+  // problems of the computation itself (the facts were complete but a rule had no data, e.g. no mileage rate in force)
+  const computeProblems = !valuation.valuation && valuationInputOf(inputs, today).input ? valuation.problems : [];
+  const validation = validateForSubmit(submitFactsOf(inputs, today, computeProblems));
   return { inputs, validation, valuation, facts: { validation, undecidedLines: undecidedLinesOf(inputs, valuation) } };
 }

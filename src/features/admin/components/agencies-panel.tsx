@@ -192,7 +192,7 @@ function AgencyDetailCard({ id, onClose }: { id: string; onClose: () => void }) 
                           {formatCents(t.laborRateCents, 'USD')} / {formatCents(t.travelRateCents, 'USD')} per h
                           <span className="block text-xs text-ink-600">overtime × {t.overtimeMultiplier}</span>
                         </Td>
-                        <Td className="text-right">{t.mileageRateCents === null ? 'IRS rate' : `${t.mileageRateCents}¢/mi`}</Td>
+                        <Td className="text-right">{t.mileageRateCents === null ? 'Dated rate' : `${t.mileageRateCents}¢/mi`}</Td>
                         <Td className="text-right tabular-nums">
                           {t.maxRoundTripMiles} mi, {t.maxTravelHours} h
                         </Td>

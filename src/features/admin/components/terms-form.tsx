@@ -96,7 +96,7 @@ export function TermsForm({ agencyId, terms, onDone }: { agencyId: string; terms
         <Field label="Travel rate per hour" error={errors.travelRateCents?.message}>
           {(p) => <Controller control={control} name="travelRateCents" render={({ field }) => <MoneyInput control={p} value={field.value} onChange={field.onChange} />} />}
         </Field>
-        <Field label="Mileage (cents per mile)" hint="Empty: the IRS standard rate of the repair year" error={errors.mileageRateCents?.message}>
+        <Field label="Mileage (cents per mile)" hint="Empty: the dated mileage rate in force on the repair date" error={errors.mileageRateCents?.message}>
           {(p) => <Input {...p} inputMode="decimal" {...register('mileageRateCents', { setValueAs: blankNull })} />}
         </Field>
       </div>
