@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { multiLine, oneLine } from './text';
+import { businessDay } from '../calculations/business-day';
+import { addDays } from '../calculations/dates';
 
 /**
  * Contracts of payment runs, part returns and the paid-claims export. Money is integer cents;
@@ -108,6 +110,26 @@ export const markPaidSchema = z.strictObject({
   reference: line('bank or check reference', 80),
 });
 export type MarkPaidInput = z.infer<typeof markPaidSchema>;
+
+/**
+ * A payment date may lie at most this many days after today (the paying organisation's
+ * business day): one day, so a transfer sent late in the evening may carry the next day's
+ * value date, and an agency in a zone ahead of the manufacturer's is not refused its own today.
+ */
+export const PAYMENT_DATE_FUTURE_DAYS = 1;
+
+/**
+ * The payment dates a run accepts, inclusive: from the business day the run was created to
+ * today + PAYMENT_DATE_FUTURE_DAYS, both in the paying organisation's time zone.
+ */
+export function paymentDateBounds(runCreatedAt: string, now: Date, timeZone: string): { from: string; to: string } {
+  return { from: businessDay(runCreatedAt, timeZone), to: addDays(businessDay(now, timeZone), PAYMENT_DATE_FUTURE_DAYS) };
+}
+
+/** The message naming both bounds, or null when the date lies within them. */
+export function paymentDateProblem(paymentDate: string, bounds: { from: string; to: string }): string | null {
+  return paymentDate < bounds.from || paymentDate > bounds.to ? `The payment date must be between ${bounds.from} and ${bounds.to}.` : null;
+}
 
 export const paymentRunListQuerySchema = z.strictObject({
   state: z.enum(paymentRunStates).optional(),

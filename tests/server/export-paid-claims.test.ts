@@ -29,11 +29,17 @@ function neutralisedPerOwasp(v: string): string {
 /** Cents as a decimal string, with decimal.js as the reference. */
 const dec = (cents: number) => new Decimal(cents).div(100).toFixed(2);
 
+/** Makes and pays a run on its payment day (a payment date may not precede the run), then comes back to today. */
 async function payRun(agency: string, claimIds: string[], paymentDate: string, reference: string) {
-  const run = await agents.accountant.post('/api/payment-runs').send({ agencyId: agency, claimIds });
+  const back = t.clock.now();
+  t.clock.set(`${paymentDate}T15:00:00.000Z`);
+  const accountant = await t.signIn('accountant');
+  const run = await accountant.post('/api/payment-runs').send({ agencyId: agency, claimIds });
   if (run.status !== 201) throw new Error(`run: ${run.status} ${JSON.stringify(run.body)}`);
-  const paid = await agents.accountant.post(`/api/payment-runs/${run.body.id}/paid`).send({ paymentDate, reference });
+  const paid = await accountant.post(`/api/payment-runs/${run.body.id}/paid`).send({ paymentDate, reference });
   if (paid.status !== 200) throw new Error(`paid: ${paid.status} ${JSON.stringify(paid.body)}`);
+  t.clock.set(back);
+  agents.accountant = await t.signIn('accountant');
   return run.body as { id: string; number: string };
 }
 

@@ -169,10 +169,10 @@ describe('marking a run paid', () => {
     const b = insertApprovedClaim(t, { laborCents: 8_000, parts: [{ cents: 6_000, status: 'waived' }] });
     const run = (await createRun({ agencyId: harborview, claimIds: [a.id, b.id] })).body;
     const before = [claimRow(t, a.id).version, claimRow(t, b.id).version];
-    const res = await markPaid(run.id, { paymentDate: '2026-06-14', reference: 'CHK 4411' });
+    const res = await markPaid(run.id, { paymentDate: '2026-06-16', reference: 'CHK 4411' }); // tomorrow: within the one-day margin
     expect(res.status).toBe(200);
     expect(res.body.state).toBe('paid');
-    expect(res.body.paymentDate).toBe('2026-06-14');
+    expect(res.body.paymentDate).toBe('2026-06-16');
     expect(res.body.reference).toBe('CHK 4411');
     expect(res.body.allowedActions).toEqual([]);
     for (const [i, c] of [a, b].entries()) {

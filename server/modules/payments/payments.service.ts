@@ -19,7 +19,8 @@ import type { RequestContext } from '../../lib/context';
 import { newId } from '../../lib/ids';
 import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
-import type { CreatePaymentRunInput, MarkPaidInput, PaymentRunAction, PaymentRunDetail, PaymentRunListQuery, PaymentRunPage, ReadyToPayResponse } from '@shared/schemas/payment';
+import { paymentDateBounds, paymentDateProblem, type CreatePaymentRunInput, type MarkPaidInput, type PaymentRunAction, type PaymentRunDetail, type PaymentRunListQuery, type PaymentRunPage, type ReadyToPayResponse } from '@shared/schemas/payment';
+import { organisationTimeZone } from '../../lib/business-day';
 import { claimSubject } from '../claims/claims.queries';
 import { payClaimFromRun } from '../claims/claims.service';
 import { isLineSettled, loadPartLines } from '../part-returns/part-returns.queries';
@@ -180,6 +181,9 @@ export function createPaymentsService(deps: AppDeps) {
     requireUpdate(a, action, run);
     if (run.state !== 'open') throw refuse(a, action, run.id, stateConflict(run));
     const { user } = a.ctx;
+    // not before the run was made, not later than tomorrow, in the paying organisation's days
+    const dateProblem = paymentDateProblem(body.paymentDate, paymentDateBounds(run.createdAt, clock.now(), organisationTimeZone(db, user.organisationId)));
+    if (dateProblem) throw new ValidationError(dateProblem, { paymentDate: dateProblem });
     let recipients: string[] = [];
     try {
       tx(db, (t) => {

@@ -1,19 +1,15 @@
 import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { markPaidSchema, type MarkPaidInput, type PaymentRunDetail } from '@shared/schemas/payment';
+import { markPaidSchema, paymentDateBounds, type MarkPaidInput, type PaymentRunDetail } from '@shared/schemas/payment';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { errorMessage, isApiError } from '@/lib/api-client';
+import { useBusinessToday, useOrganisationTimeZone } from '@/lib/business-day';
 import { formatCents, plural } from '@/lib/format';
 import { useMarkPaymentRunPaid } from '../api/update-payment-run';
-
-function todayLocal(): string {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-}
 
 /**
  * The payment date and the bank or check reference, in a modal dialog. Confirming pays every
@@ -23,7 +19,10 @@ export function MarkPaidDialog({ run }: { run: PaymentRunDetail }) {
   const ref = useRef<HTMLDialogElement>(null);
   const [open, setOpen] = useState(false);
   const paid = useMarkPaymentRunPaid(run.id);
-  const form = useForm<MarkPaidInput>({ resolver: zodResolver(markPaidSchema), defaultValues: { paymentDate: todayLocal(), reference: '' } });
+  const today = useBusinessToday();
+  // the bounds the server holds the date to: from the run's creation day to tomorrow
+  const bounds = paymentDateBounds(run.createdAt, new Date(), useOrganisationTimeZone());
+  const form = useForm<MarkPaidInput>({ resolver: zodResolver(markPaidSchema), defaultValues: { paymentDate: today, reference: '' } });
   const { errors } = form.formState;
 
   useEffect(() => {
@@ -59,8 +58,8 @@ export function MarkPaidDialog({ run }: { run: PaymentRunDetail }) {
             {plural(run.claims.length, 'claim')} of {run.agencyName}, {formatCents(run.totalCents, run.currency)}. Every claim moves to paid and the agency’s admins receive the remittance
             with the lines attached.
           </p>
-          <Field label="Payment date" error={errors.paymentDate?.message}>
-            {(p) => <Input type="date" {...p} {...form.register('paymentDate')} />}
+          <Field label="Payment date" hint={`Between ${bounds.from} and ${bounds.to}.`} error={errors.paymentDate?.message}>
+            {(p) => <Input type="date" min={bounds.from} max={bounds.to} {...p} {...form.register('paymentDate')} />}
           </Field>
           <Field label="Bank or check reference" hint="As it appears on the transfer or the check." error={errors.reference?.message}>
             {(p) => <Input autoComplete="off" maxLength={80} {...p} {...form.register('reference')} />}
