@@ -149,7 +149,16 @@ export interface ClaimDetail extends ClaimListItem {
   firstSubmittedAt: string | null;
   decidedAt: string | null;
   paidAt: string | null;
+  /** Who holds the review now: the reviewer who started it or last took it over. */
   reviewerName: string | null;
+  /** The reviewer who approved or denied the claim, from the claim's events. */
+  decidedByName?: string | null;
+  /** An approval above the first reviewer's limit, waiting for a second reviewer to confirm it. */
+  firstApproval?: null | { byName: string; byYou: boolean; at: string; approvedTotalCents: number };
+  /** True when the claim is in review with the signed-in reviewer. */
+  heldByYou?: boolean;
+  /** True when the signed-in reviewer may take the review over from another reviewer. */
+  canTakeOver?: boolean;
   unit: null | {
     id: string;
     serial: string;
@@ -163,7 +172,7 @@ export interface ClaimDetail extends ClaimListItem {
   travel: null | { roundTripMiles: number; travelHours: number; approvedAmountCents: number | null; adjustmentReason: string | null };
   partLines: Array<{ id: string; position: number; partId: string; partNumber: string; description: string; listPriceCents: number; returnRequired: boolean; quantity: number; approvedQuantity: number | null; approvedAmountCents: number | null; adjustmentReason: string | null; returnStatus: string; carrier: string | null; trackingNumber: string | null; receivedCondition: string | null }>;
   readings: Array<{ id: string; key: string; phase: 'before' | 'after'; value: number; unit: string }>;
-  attachments: Array<{ id: string; role: AttachmentRole; originalName: string; contentType: string; sizeBytes: number; createdAt: string; hasThumbnail: boolean }>;
+  attachments: Array<{ id: string; role: AttachmentRole; originalName: string; contentType: string; sizeBytes: number; createdAt: string; hasThumbnail: boolean; retractedAt?: string | null; retractionReason?: string | null }>;
   events: Array<{ id: string; type: string; fromState: string | null; toState: string | null; reason: string | null; comment: string | null; at: string; actorName: string | null }>;
   comments: Array<{ id: string; body: string; createdAt: string; authorName: string; authorOrganisation: string }>;
   /** Moves the workflow allows from this state AND this user's abilities allow. */

@@ -1,8 +1,9 @@
 /**
- * Why a reviewer sends a claim back or turns it down. Fieldproof's own short list, in plain
- * English. A return asks the agency to fix something and resubmit; a denial is final.
+ * Why a reviewer sends a claim back or turns it down, or approves a line above what the agency
+ * entered. Fieldproof's own short list, in plain English. A return asks the agency to fix
+ * something and resubmit; a denial is final; a raise lifts a line above the agency's entry.
  */
-export type ReasonMove = 'return' | 'deny';
+export type ReasonMove = 'return' | 'deny' | 'raise';
 
 export interface ReasonCodeInfo {
   label: string;
@@ -60,6 +61,21 @@ export const REASON_CODES = {
     label: 'Duplicate of another claim',
     hint: 'The same visit or repair was already claimed.',
     moves: ['deny'],
+  },
+  entered_below_allowance: {
+    label: 'Entered below the allowance',
+    hint: 'The agency entered less time or fewer parts than the repair needed and the allowance pays.',
+    moves: ['raise'],
+  },
+  work_shown_in_evidence: {
+    label: 'More work shown in the evidence',
+    hint: 'Photos, readings or the invoice show work the agency left off the line.',
+    moves: ['raise'],
+  },
+  corrected_at_agency_request: {
+    label: 'Corrected at the agency’s request',
+    hint: 'The agency asked in a comment for the entry to be corrected upwards.',
+    moves: ['raise'],
   },
   other: {
     label: 'Other (see comment)',

@@ -22,6 +22,8 @@ export const commentSchema = z.strictObject({
 export type CommentInput = z.infer<typeof commentSchema>;
 
 const reason = oneLine({ max: 500, min: 0, label: 'The reason' }).nullable();
+/** A code from the reason list; needed when a line is approved above what the agency entered. */
+const reasonCode = z.string().max(60).nullable().optional();
 
 /**
  * POST /api/claims/:id/adjustments: a reviewer's line decisions while the claim is in review.
@@ -36,6 +38,7 @@ export const adjustmentsSchema = z.strictObject({
         approvedHours: z.number().min(0).max(24).nullable().optional(),
         approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable().optional(),
         reason,
+        reasonCode,
       }),
     )
     .max(20)
@@ -47,11 +50,19 @@ export const adjustmentsSchema = z.strictObject({
         approvedQuantity: z.number().int().min(0).max(99).nullable().optional(),
         approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable().optional(),
         reason,
+        reasonCode,
       }),
     )
     .max(40)
     .optional(),
   /** The whole trip (distance and time) approved as one amount. */
-  travel: z.strictObject({ approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable(), reason }).optional(),
+  travel: z.strictObject({ approvedAmountCents: z.number().int().min(0).max(10_000_000).nullable(), reason, reasonCode }).optional(),
 });
 export type AdjustmentsInput = z.infer<typeof adjustmentsSchema>;
+
+/** POST /api/claims/:id/take-over: a reviewer takes a claim in review from another reviewer. */
+export const takeOverSchema = z.strictObject({
+  version,
+  reason: oneLine({ max: 500, min: 3, label: 'The reason', required: 'Say why you take the claim over; the other reviewer reads it.' }),
+});
+export type TakeOverInput = z.infer<typeof takeOverSchema>;

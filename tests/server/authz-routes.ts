@@ -587,6 +587,18 @@ export const routes: RouteCase[] = [
     expect: x(401, 403, 403, 404, OK, 404, 404),
   },
   {
+    method: 'POST',
+    route: '/api/claims/:id/take-over',
+    ids: { id: 'claim' },
+    build: async ({ f }) => {
+      const r = await f.fresh.inReview();
+      const other = f.fresh.user('M', 'reviewer');
+      f.one('update claims set reviewer_id = ? where id = ? returning id', other.id, r.id);
+      return { params: { id: r.id }, body: { version: r.version, reason: 'Covering while the first reviewer is away.' } };
+    },
+    expect: x(401, 403, 403, 404, OK, 404, 404),
+  },
+  {
     method: 'GET',
     route: '/api/claims/:id/valuation',
     ids: { id: 'claim' },
@@ -930,6 +942,8 @@ function adminRoutes(): RouteCase[] {
     r('GET', '/users', () => ({})),
     r('POST', '/users', ({ f }) => ({ body: { email: `mfr-person-${f.n()}@fixture.test`, role: 'reviewer' } })),
     r('PATCH', '/users/:id', ({ f }) => ({ params: { id: f.fresh.user('M', 'reviewer').id }, body: { role: 'accountant' } })),
+    r('GET', '/approval-limits', () => ({})),
+    r('PATCH', '/approval-limits/:userId', ({ f }) => ({ params: { userId: f.fresh.user('M', 'reviewer').id }, body: { limitCents: 250_000 } })),
   ];
 }
 

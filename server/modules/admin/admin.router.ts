@@ -31,6 +31,8 @@ import { createUsersService, requireUserAdmin, roleRefusal, scopeRoles } from '.
 import { createCatalogService } from './catalog.service';
 import { createAgenciesService } from './agencies.service';
 import { allowanceHistory, priceHistory } from './catalog.queries';
+import { createApprovalLimitsService } from './approval-limits.service';
+import { approvalLimitSchema } from '@shared/schemas/approval-limits';
 
 /** /api/admin: the manufacturer admin's catalogue, agencies and contract terms, and manufacturer users. */
 export function adminRouter(deps: AppDeps): Router {
@@ -38,6 +40,7 @@ export function adminRouter(deps: AppDeps): Router {
   const invitations = createInvitationsService(deps);
   const agencies = createAgenciesService(deps, invitations);
   const usersService = createUsersService(deps);
+  const limits = createApprovalLimitsService(deps);
   const r = Router();
   r.use(requireUser);
   // Everything here is the manufacturer admin's: refuse others before reading any body.
@@ -170,6 +173,15 @@ export function adminRouter(deps: AppDeps): Router {
     const ctx = requireCtx(req);
     requireUserAdmin(ctx, 'manufacturer');
     res.json(usersService.update(ctx, 'manufacturer', req.params.id, parseBody(updateUserSchema, req.body), ip(req)));
+  });
+
+  // ---------------------------------------------------------------- reviewers' approval limits
+  r.get('/approval-limits', (req, res) => {
+    res.json({ items: limits.list(requireCtx(req)) });
+  });
+  r.patch('/approval-limits/:userId', (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(limits.set(ctx, req.params.userId, parseBody(approvalLimitSchema, req.body), ip(req)));
   });
 
   return r;

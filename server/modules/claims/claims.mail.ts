@@ -92,3 +92,12 @@ export function queueMoveMail(t: Db, clock: Clock, m: MoveMail): void {
       return;
   }
 }
+
+/** Tells the reviewer who held a review that another reviewer took the claim over, and why. */
+export function queueReviewHandMail(t: Db, clock: Clock, m: { to: string; claim: Claim; takerName: string; reason: string; publicUrl: string }): void {
+  enqueueMail(t, clock, {
+    to: [m.to],
+    subject: `Claim ${m.claim.number} was taken over by ${m.takerName}`,
+    text: `${m.takerName} took over the review of claim ${m.claim.number} from you.\n\nReason: ${m.reason}\n\nOpen the claim: ${claimLink(m.publicUrl, m.claim.id)}\n`,
+  });
+}

@@ -451,6 +451,8 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
       sizeBytes: attachments.sizeBytes,
       createdAt: attachments.createdAt,
       thumbnailKey: attachments.thumbnailKey,
+      retractedAt: attachments.retractedAt,
+      retractionReason: attachments.retractionReason,
     })
     .from(attachments)
     .where(eq(attachments.claimId, row.id))
@@ -516,6 +518,16 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
     decidedAt: row.decidedAt,
     paidAt: row.paidAt,
     reviewerName: head?.reviewerName ?? null,
+    decidedByName: [...events].reverse().find((e) => e.type === 'approve' || e.type === 'deny')?.actorName ?? null,
+    firstApproval: row.firstApprovedBy
+      ? {
+          byName: db.select({ name: users.name }).from(users).where(eq(users.id, row.firstApprovedBy)).get()?.name ?? '',
+          byYou: false,
+          at: row.firstApprovedAt ?? '',
+          approvedTotalCents: row.firstApprovedCents ?? 0,
+        }
+      : null,
+    heldByYou: false,
     unit: unit
       ? {
           id: unit.id,

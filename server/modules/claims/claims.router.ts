@@ -4,7 +4,7 @@ import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
 import { parseBody, parseQuery } from '../../middleware/validate';
 import { claimListQuerySchema, createClaimSchema, updateClaimSchema } from '@shared/schemas/claim';
-import { adjustmentsSchema, commentSchema, transitionSchema } from '@shared/workflow/workflow-schemas';
+import { adjustmentsSchema, commentSchema, takeOverSchema, transitionSchema } from '@shared/workflow/workflow-schemas';
 import { createClaimsService } from './claims.service';
 
 /** /api/claims: HTTP only; the rules live in the service. */
@@ -36,6 +36,10 @@ export function claimsRouter(deps: AppDeps): Router {
 
   r.post('/:id/adjustments', (req, res) => {
     res.json(service.adjust(actor(req), req.params.id, parseBody(adjustmentsSchema, req.body)));
+  });
+
+  r.post('/:id/take-over', (req, res) => {
+    res.json(service.takeOver(actor(req), req.params.id, parseBody(takeOverSchema, req.body)));
   });
 
   r.get('/:id/valuation', (req, res) => {

@@ -3,9 +3,10 @@
  * stores. Every write is one synchronous transaction with its event row, audit row and outbox
  * mail; mail is sent after the commit.
  */
-import { and, desc, eq, like, sql } from 'drizzle-orm';
+import { and, desc, eq, like, ne, sql } from 'drizzle-orm';
 import { tx, type Db } from '../../db/client';
 import {
+  approvalLimits,
   claimCounters,
   claimEvents,
   claimLaborLines,
@@ -34,13 +35,15 @@ import type { ClaimDetail, ClaimDraftInput, ClaimListQuery, ClaimValuationBasis 
 import { FLAG_INFO, isFlagCode } from '@shared/calculations/flags';
 import { areCompatible } from '@shared/calculations/units';
 import { actionToEvent, allowedEvents, editableStates, eventsFromState, isEditable, nextState, statesAllowing, type ClaimEvent } from '@shared/workflow/claim-machine';
-import { isReasonFor, reasonCodesFor } from '@shared/workflow/reason-codes';
+import { isReasonFor, reasonCodesFor, reasonLabel } from '@shared/workflow/reason-codes';
 import { problemsAsFields } from '@shared/workflow/submit-validation';
-import type { AdjustmentsInput, CommentInput, TransitionInput } from '@shared/workflow/workflow-schemas';
+import type { AdjustmentsInput, CommentInput, TakeOverInput, TransitionInput } from '@shared/workflow/workflow-schemas';
 import { claimSubject, findReadableClaim, listClaims, loadClaimDetail, type ClaimListPage } from './claims.queries';
-import { evaluateClaim, loadClaimInputs, valuationInputOf, valueFromInputs } from './valuation.builder';
+import { evaluateClaim, loadClaimInputs, valuationInputOf, valueFromInputs, type ClaimInputs } from './valuation.builder';
 import type { Valuation } from '@shared/calculations/valuation';
-import { queueMoveMail } from './claims.mail';
+import { claimLink, queueMoveMail, queueReviewHandMail } from './claims.mail';
+import { formatCents } from '@shared/calculations/money';
+import { enqueueMail } from '../../lib/mail/outbox';
 
 export interface Actor {
   ctx: RequestContext;
@@ -103,8 +106,16 @@ export function createClaimsService(deps: AppDeps) {
   function detailOf(a: Actor, row: Claim): ClaimDetail {
     const data = loadClaimDetail(db, row);
     const { facts } = evaluateClaim(db, row, today());
-    const allowedActions = allowedEvents(row.state, facts).filter((action) => can(a, action, row));
-    return { ...data, allowedActions };
+    const { user } = a.ctx;
+    const held = heldByAnother(a, row) !== null;
+    const confirmable = !!row.firstApprovedBy && row.firstApprovedBy !== user.id;
+    // a review held by another reviewer offers only the take-over (and a confirmation of a first approval)
+    const allowedActions = allowedEvents(row.state, facts)
+      .filter((action) => can(a, action, row))
+      .filter((action) => !held || (action === 'approve' && confirmable))
+      .filter((action) => !(action === 'approve' && row.firstApprovedBy === user.id));
+    const firstApproval = data.firstApproval ? { ...data.firstApproval, byYou: row.firstApprovedBy === user.id } : null;
+    return { ...data, firstApproval, heldByYou: row.state === 'in_review' && row.reviewerId === user.id, canTakeOver: held && can(a, 'adjust', row), allowedActions };
   }
 
   function get(a: Actor, id: string): ClaimDetail {
@@ -328,6 +339,8 @@ export function createClaimsService(deps: AppDeps) {
       throw refuse(a, auditAction, id, new ConflictError(`A claim that is ${row.state.replace('_', ' ')} cannot take this move.`, 'transition_refused'), detail);
     }
     if (!can(a, action, row)) throw refuse(a, auditAction, id, forbidden(), detail);
+    const held = heldByAnother(a, row, type === 'APPROVE' && !!row.firstApprovedBy && row.firstApprovedBy !== a.ctx.user.id);
+    if (held) throw refuse(a, auditAction, id, held, detail);
 
     const reason = body.reason ?? null;
     const comment = body.comment && body.comment !== '' ? body.comment : null;
@@ -358,6 +371,22 @@ export function createClaimsService(deps: AppDeps) {
     if (!to) throw refuse(a, auditAction, id, new ConflictError('The workflow does not allow this move now.', 'transition_refused'), detail);
 
     const { user } = a.ctx;
+    let confirming: string | null = null;
+    if (type === 'APPROVE') {
+      const total = evaluation.valuation.valuation?.totals.approved.totalCents ?? 0;
+      if (row.firstApprovedBy === user.id) {
+        throw refuse(a, auditAction, id, new ConflictError('You gave the first approval; a second reviewer must confirm it.', 'second_reviewer_needed'), detail);
+      }
+      if (row.firstApprovedBy) {
+        if (row.firstApprovedCents !== total) {
+          throw refuse(a, auditAction, id, new ConflictError('The approved amount changed since the first approval; the first approval has to be given again.', 'first_approval_outdated'), detail);
+        }
+        confirming = nameOf(row.firstApprovedBy);
+      } else {
+        const limit = approvalLimitOf(user.id);
+        if (limit !== null && total > limit) return recordFirstApproval(a, row, body.version, total, limit);
+      }
+    }
     let updated: Claim;
     try {
       updated = tx(db, (t) => {
@@ -378,6 +407,11 @@ export function createClaimsService(deps: AppDeps) {
         if (type === 'APPROVE' || type === 'DENY') {
           set.decidedAt = now;
           set.decidedBy = user.id;
+        }
+        if (row.state === 'in_review') {
+          set.firstApprovedBy = null;
+          set.firstApprovedAt = null;
+          set.firstApprovedCents = null;
         }
         if (type === 'APPROVE' && v) {
           set.approvedLaborCents = v.totals.approved.laborCents;
@@ -404,7 +438,18 @@ export function createClaimsService(deps: AppDeps) {
           .run();
         if (r.changes !== 1) throw staleError();
         t.insert(claimEvents)
-          .values({ id: newId(), claimId: id, actorId: user.id, organisationId: user.organisationId, type: action, fromState: row.state, toState: to, reason, comment, at: now })
+          .values({
+            id: newId(),
+            claimId: id,
+            actorId: user.id,
+            organisationId: user.organisationId,
+            type: action,
+            fromState: row.state,
+            toState: to,
+            reason,
+            comment: confirming ? `Confirms the first approval by ${confirming}.` : comment,
+            at: now,
+          })
           .run();
         const agencyName = t.select({ name: organisations.name }).from(organisations).where(eq(organisations.id, row.agencyId)).get()?.name ?? '';
         queueMoveMail(t, clock, {
@@ -428,6 +473,98 @@ export function createClaimsService(deps: AppDeps) {
     return detailOf(a, updated);
   }
 
+  // ---- who holds a review, take-over, second approval ---------------------------------------
+
+  const nameOf = (userId: string | null): string => (userId ? (db.select({ name: users.name }).from(users).where(eq(users.id, userId)).get()?.name ?? 'another reviewer') : 'another reviewer');
+
+  /**
+   * A claim in review is held by the reviewer who started (or last took over) the review: any
+   * other reviewer must take it over first. `confirming` lets a second reviewer confirm a first
+   * approval without taking the claim over.
+   */
+  function heldByAnother(a: Actor, row: Claim, confirming = false): AppError | null {
+    const { user } = a.ctx;
+    if (row.state !== 'in_review' || user.role !== 'reviewer' || !row.reviewerId || row.reviewerId === user.id || confirming) return null;
+    return new ConflictError(`This claim is in review with ${nameOf(row.reviewerId)}. Take it over, with a reason, before you act on it.`, 'held_by_another_reviewer');
+  }
+
+  /** What the agency entered, priced, per valuation line id (before allowances, caps and coverage). */
+  function enteredCentsOf(inputs: ClaimInputs): Map<string, number> {
+    const v = valueFromInputs(inputs, today()).valuation;
+    return new Map((v?.lines ?? []).map((l) => [l.id, l.requestedCents]));
+  }
+
+  /** The reviewer's approval limit in cents, or null when none is set. */
+  function approvalLimitOf(userId: string): number | null {
+    return db.select({ limitCents: approvalLimits.limitCents }).from(approvalLimits).where(eq(approvalLimits.userId, userId)).get()?.limitCents ?? null;
+  }
+
+  /** An approval above the reviewer's limit: recorded as the first of two, the claim stays in review. */
+  function recordFirstApproval(a: Actor, row: Claim, version: number, totalCents: number, limitCents: number): ClaimDetail {
+    const { user } = a.ctx;
+    const updated = tx(db, (t) => {
+      const now = clock.now().toISOString();
+      const r = t
+        .update(claims)
+        .set({ firstApprovedBy: user.id, firstApprovedAt: now, firstApprovedCents: totalCents, version: row.version + 1, updatedAt: now })
+        .where(and(eq(claims.id, row.id), eq(claims.version, version), eq(claims.state, 'in_review')))
+        .run();
+      if (r.changes !== 1) throw staleError();
+      const amount = formatCents(totalCents, row.currency);
+      t.insert(claimEvents)
+        .values({ id: newId(), claimId: row.id, actorId: user.id, organisationId: user.organisationId, type: 'first_approval', fromState: 'in_review', toState: 'in_review', comment: `Approved ${amount}, above the approval limit of ${formatCents(limitCents, row.currency)}; a second reviewer confirms.`, at: now })
+        .run();
+      const others = t
+        .select({ email: users.email })
+        .from(users)
+        .where(and(eq(users.organisationId, user.organisationId), eq(users.role, 'reviewer'), eq(users.active, true), ne(users.id, user.id)))
+        .all()
+        .map((u) => u.email);
+      if (others.length > 0) {
+        enqueueMail(t, clock, {
+          to: others,
+          subject: `Claim ${row.number} needs a second approval`,
+          text: `${user.name} approved claim ${row.number} for ${amount}, above their approval limit. A second reviewer confirms the approval.\n\nOpen the claim: ${claimLink(deps.env.PUBLIC_URL, row.id)}\n`,
+        });
+      }
+      writeAudit(t, clock, { actorId: user.id, organisationId: user.organisationId, action: 'claim.first_approval', recordType: 'claim', recordId: row.id, outcome: 'success', ip: a.ip ?? null, detail: { totalCents, limitCents } });
+      return t.select().from(claims).where(eq(claims.id, row.id)).get()!;
+    });
+    deps.outbox.kick();
+    return detailOf(a, updated);
+  }
+
+  /** A reviewer takes a claim in review over from the reviewer who holds it, with a reason the other reviewer is mailed. */
+  function takeOver(a: Actor, id: string, body: TakeOverInput): ClaimDetail {
+    const row = writable(a, 'claim.take_over', id);
+    const forbidden = new ForbiddenError('Only a warranty reviewer takes over a review.');
+    if (!couldAct(a, 'adjust', row, ['in_review'])) throw refuse(a, 'claim.take_over', id, forbidden);
+    if (row.version !== body.version) throw refuse(a, 'claim.take_over', id, staleError());
+    if (row.state !== 'in_review') throw refuse(a, 'claim.take_over', id, new ConflictError('Only a claim in review can be taken over.', 'not_in_review'));
+    if (!can(a, 'adjust', row)) throw refuse(a, 'claim.take_over', id, forbidden);
+    const { user } = a.ctx;
+    if (!row.reviewerId || row.reviewerId === user.id) throw refuse(a, 'claim.take_over', id, new ConflictError('This review is already yours.', 'already_yours'));
+    const previous = db.select({ id: users.id, name: users.name, email: users.email, active: users.active }).from(users).where(eq(users.id, row.reviewerId)).get();
+    const reason = body.reason.trim();
+    const updated = tx(db, (t) => {
+      const now = clock.now().toISOString();
+      const r = t
+        .update(claims)
+        .set({ reviewerId: user.id, version: row.version + 1, updatedAt: now })
+        .where(and(eq(claims.id, id), eq(claims.version, body.version), eq(claims.state, 'in_review'), eq(claims.reviewerId, row.reviewerId!)))
+        .run();
+      if (r.changes !== 1) throw staleError();
+      t.insert(claimEvents)
+        .values({ id: newId(), claimId: id, actorId: user.id, organisationId: user.organisationId, type: 'take_over', fromState: 'in_review', toState: 'in_review', comment: `Taken over from ${previous?.name ?? 'another reviewer'}: ${reason}`.slice(0, 4000), at: now })
+        .run();
+      if (previous?.active) queueReviewHandMail(t, clock, { to: previous.email, claim: row, takerName: user.name, reason, publicUrl: deps.env.PUBLIC_URL });
+      writeAudit(t, clock, { actorId: user.id, organisationId: user.organisationId, action: 'claim.take_over', recordType: 'claim', recordId: id, outcome: 'success', ip: a.ip ?? null, detail: { from: row.reviewerId, reason } });
+      return t.select().from(claims).where(eq(claims.id, id)).get()!;
+    });
+    deps.outbox.kick();
+    return detailOf(a, updated);
+  }
+
   // ---- review adjustments ------------------------------------------------------------------
 
   function adjust(a: Actor, id: string, body: AdjustmentsInput): ClaimDetail {
@@ -437,7 +574,10 @@ export function createClaimsService(deps: AppDeps) {
     if (row.version !== body.version) throw refuse(a, 'claim.adjust', id, staleError());
     if (row.state !== 'in_review') throw refuse(a, 'claim.adjust', id, new ConflictError('Lines are adjusted only while the claim is in review.', 'not_in_review'));
     if (!can(a, 'adjust', row)) throw refuse(a, 'claim.adjust', id, forbidden);
+    const held = heldByAnother(a, row);
+    if (held) throw refuse(a, 'claim.adjust', id, held);
     const inputs = loadClaimInputs(db, row);
+    const entered = enteredCentsOf(inputs);
     const fields: Record<string, string> = {};
     const laborIds = new Set(inputs.labor.map((l) => l.id));
     const partIds = new Set(inputs.parts.map((p) => p.id));
@@ -465,7 +605,30 @@ export function createClaimsService(deps: AppDeps) {
       else if (body.travel.approvedAmountCents !== null && !hasReason(body.travel.reason)) fields['travel.reason'] = 'Give a reason for the adjustment.';
       else if (body.travel.approvedAmountCents === null && hasReason(body.travel.reason)) fields['travel.approvedAmountCents'] = 'Enter the approved travel amount.';
     }
+    // approving above what the agency entered needs a code from the reason list
+    const raiseCodes = reasonCodesFor('raise').join(', ');
+    const needsCode = (path: string, above: boolean, code: string | null | undefined) => {
+      if (above && !fields[path.replace(/reasonCode$/, 'reason')] && !isReasonFor('raise', code)) fields[path] = `This is above what the agency entered: choose a reason code (${raiseCodes}).`;
+    };
+    (body.laborLines ?? []).forEach((l, i) => {
+      const line = inputs.labor.find((x) => x.id === l.id);
+      if (!line) return;
+      const above = (l.approvedHours != null && l.approvedHours > line.hoursWorked) || (l.approvedAmountCents != null && l.approvedAmountCents > (entered.get(l.id) ?? 0));
+      needsCode(`laborLines.${i}.reasonCode`, above, l.reasonCode);
+    });
+    (body.partLines ?? []).forEach((p, i) => {
+      const line = inputs.parts.find((x) => x.id === p.id);
+      if (!line) return;
+      const above = (p.approvedQuantity != null && p.approvedQuantity > line.quantity) || (p.approvedAmountCents != null && p.approvedAmountCents > (entered.get(p.id) ?? 0));
+      needsCode(`partLines.${i}.reasonCode`, above, p.reasonCode);
+    });
+    if (body.travel && inputs.travel && body.travel.approvedAmountCents != null) {
+      const tr = inputs.travel;
+      const enteredTravel = (entered.get(`${tr.id}-distance`) ?? 0) + (entered.get(`${tr.id}-time`) ?? 0);
+      needsCode('travel.reasonCode', body.travel.approvedAmountCents > enteredTravel, body.travel.reasonCode);
+    }
     if (Object.keys(fields).length > 0) throw new ValidationError('Some adjustments need attention.', fields);
+    const withCode = (text: string, code: string | null | undefined) => (isReasonFor('raise', code) ? `${reasonLabel(code)}: ${text}` : text);
 
     const updated = tx(db, (t) => {
       const now = clock.now().toISOString();
@@ -474,7 +637,7 @@ export function createClaimsService(deps: AppDeps) {
         const amount = l.approvedAmountCents ?? null;
         const cleared = hours === null && amount === null;
         t.update(claimLaborLines)
-          .set({ approvedHours: hours, approvedAmountCents: amount, adjustmentReason: cleared ? null : l.reason!.trim() })
+          .set({ approvedHours: hours, approvedAmountCents: amount, adjustmentReason: cleared ? null : withCode(l.reason!.trim(), l.reasonCode) })
           .where(and(eq(claimLaborLines.id, l.id), eq(claimLaborLines.claimId, id)))
           .run();
         summary.push(cleared ? `labor line cleared` : `labor line ${hours !== null ? `${hours} h` : `${amount} cents`}: ${l.reason!.trim()}`);
@@ -484,7 +647,7 @@ export function createClaimsService(deps: AppDeps) {
         const amount = p.approvedAmountCents ?? null;
         const cleared = qty === null && amount === null;
         t.update(claimPartLines)
-          .set({ approvedQuantity: qty, approvedAmountCents: amount, adjustmentReason: cleared ? null : p.reason!.trim() })
+          .set({ approvedQuantity: qty, approvedAmountCents: amount, adjustmentReason: cleared ? null : withCode(p.reason!.trim(), p.reasonCode) })
           .where(and(eq(claimPartLines.id, p.id), eq(claimPartLines.claimId, id)))
           .run();
         summary.push(cleared ? `part line cleared` : `part line ${qty !== null ? `quantity ${qty}` : `${amount} cents`}: ${p.reason!.trim()}`);
@@ -492,14 +655,15 @@ export function createClaimsService(deps: AppDeps) {
       if (body.travel && inputs.travel) {
         const cleared = body.travel.approvedAmountCents === null;
         t.update(claimTravel)
-          .set({ approvedAmountCents: body.travel.approvedAmountCents, adjustmentReason: cleared ? null : body.travel.reason!.trim() })
+          .set({ approvedAmountCents: body.travel.approvedAmountCents, adjustmentReason: cleared ? null : withCode(body.travel.reason!.trim(), body.travel.reasonCode) })
           .where(eq(claimTravel.id, inputs.travel.id))
           .run();
         summary.push(cleared ? 'travel cleared' : `travel ${body.travel.approvedAmountCents} cents: ${body.travel.reason!.trim()}`);
       }
+      // an adjustment changes the amount: a first approval waiting for confirmation no longer holds
       const r = t
         .update(claims)
-        .set({ version: row.version + 1, updatedAt: now })
+        .set({ version: row.version + 1, updatedAt: now, firstApprovedBy: null, firstApprovedAt: null, firstApprovedCents: null })
         .where(and(eq(claims.id, id), eq(claims.version, body.version), eq(claims.state, row.state)))
         .run();
       if (r.changes !== 1) throw staleError();
@@ -528,7 +692,7 @@ export function createClaimsService(deps: AppDeps) {
     return { id: commentId, body: body.body, createdAt: now, authorName: user.name, authorOrganisation: org?.name ?? '' };
   }
 
-  return { list, get, create, update, transition, adjust, comment, valuation, valuationBasis };
+  return { list, get, create, update, transition, adjust, comment, valuation, valuationBasis, takeOver };
 }
 
 export type ClaimsService = ReturnType<typeof createClaimsService>;

@@ -23,6 +23,7 @@ import { ClaimActionsBar } from '@/features/claims/components/claim-actions-bar'
 import { ValuationBreakdown } from '@/features/claims/components/valuation-breakdown';
 import { PartReturnsPanel } from '@/features/part-returns/components/part-returns-panel';
 import { AdjustmentsPanel } from '@/features/review/components/adjustments-panel';
+import { TakeOverPanel } from '@/features/review/components/take-over-panel';
 import { ClaimActivity } from '@/features/comments/components/claim-activity';
 import { EvidencePanel } from '@/features/evidence/components/evidence-panel';
 import { ReadingsPanel } from '@/features/evidence/components/readings-panel';
@@ -104,7 +105,7 @@ function ClaimStatusNote({ claim }: { claim: ClaimDetail }) {
   if (claim.state === 'approved' || claim.state === 'paid') {
     return (
       <Alert tone="success" title={`Approved: ${formatCents(claim.approvedTotalCents, claim.currency)}`}>
-        {claim.state === 'paid' ? `Paid ${formatDateTime(claim.paidAt)}.` : `Decided ${formatDateTime(claim.decidedAt)}${claim.reviewerName ? ` by ${claim.reviewerName}` : ''}; it is paid in the next payment run.`}
+        {claim.state === 'paid' ? `Paid ${formatDateTime(claim.paidAt)}.` : `Decided ${formatDateTime(claim.decidedAt)}${claim.decidedByName ? ` by ${claim.decidedByName}` : ''}; it is paid in the next payment run.`}
       </Alert>
     );
   }
@@ -116,7 +117,20 @@ function ClaimStatusNote({ claim }: { claim: ClaimDetail }) {
       </Alert>
     );
   }
-  if (claim.state === 'in_review') return <p className="text-sm text-ink-700">In review{claim.reviewerName ? ` with ${claim.reviewerName}` : ''}.</p>;
+  if (claim.state === 'in_review') {
+    return (
+      <div className="space-y-2">
+        <p className="text-sm text-ink-700">In review{claim.heldByYou ? ' with you' : claim.reviewerName ? ` with ${claim.reviewerName}` : ''}.</p>
+        {claim.firstApproval && (
+          <Alert tone="info" title={`First approval: ${formatCents(claim.firstApproval.approvedTotalCents, claim.currency)}`}>
+            {claim.firstApproval.byYou
+              ? 'You approved above your approval limit; a second reviewer confirms.'
+              : `${claim.firstApproval.byName} approved above their approval limit on ${formatDateTime(claim.firstApproval.at)}; a second reviewer confirms with Approve.`}
+          </Alert>
+        )}
+      </div>
+    );
+  }
   if (claim.state === 'submitted') return <p className="text-sm text-ink-700">Submitted{claim.resubmissionCount > 0 ? ` again (resubmission ${claim.resubmissionCount})` : ''}; waiting for a reviewer to start.</p>;
   return null;
 }
@@ -170,7 +184,8 @@ export function ClaimRoute() {
       </div>
       <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-5">
-          {c.state === 'in_review' && may('adjust') && <AdjustmentsPanel claim={c} valuation={valuation.data} />}
+          {c.state === 'in_review' && c.canTakeOver && <TakeOverPanel claim={c} />}
+          {c.state === 'in_review' && may('adjust') && !c.canTakeOver && <AdjustmentsPanel claim={c} valuation={valuation.data} />}
           <ClaimStory claim={c} />
           <ClaimLines claim={c} valuation={valuation.data} />
           <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />

@@ -78,6 +78,9 @@ export const reasonSections: Record<ReasonCode, FormSection[]> = {
   filed_late: ['dates'],
   not_a_warranty_failure: ['story'],
   duplicate_claim: ['unit'],
+  entered_below_allowance: ['labor', 'parts'],
+  work_shown_in_evidence: ['labor', 'parts'],
+  corrected_at_agency_request: ['labor', 'parts'],
   other: [],
 };
 

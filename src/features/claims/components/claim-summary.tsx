@@ -90,6 +90,7 @@ export function ClaimDatesCard({ claim }: { claim: ClaimDetail }) {
             { label: 'Last submitted', value: formatDateTime(claim.submittedAt) },
             { label: 'Reviewer', value: claim.reviewerName },
             { label: 'Decided', value: formatDateTime(claim.decidedAt) },
+            ...(claim.decidedByName ? [{ label: 'Decided by', value: claim.decidedByName }] : []),
             { label: 'Paid', value: formatDateTime(claim.paidAt) },
             { label: 'Pre-authorisation', value: claim.preAuthorization },
           ]}

@@ -1,3 +1,4 @@
+import { REASON_CODES, reasonCodesFor } from '@shared/workflow/reason-codes';
 import { useState, type ReactNode } from 'react';
 import type { Valuation } from '@shared/calculations/valuation';
 import type { ClaimDetail } from '@shared/schemas/claim';
@@ -89,16 +90,19 @@ function linesOf(claim: ClaimDetail, valuation: Valuation | undefined): LineView
 const modeLabel: Record<Mode, string> = { hours: 'Approved hours', quantity: 'Approved quantity', amount: 'Approved amount ($)' };
 
 /** The body that sets (or, with value null, clears) one line's adjustment. */
-export function adjustmentBody(version: number, line: { kind: Kind; id: string }, mode: Mode, value: number | null, reason: string | null): AdjustmentsInput {
+export function adjustmentBody(version: number, line: { kind: Kind; id: string }, mode: Mode, value: number | null, reason: string | null, reasonCode: string | null = null): AdjustmentsInput {
   const r = reason && reason.trim() !== '' ? reason.trim() : null;
-  if (line.kind === 'labor') return { version, laborLines: [{ id: line.id, approvedHours: value, approvedAmountCents: null, reason: value === null ? null : r }] };
+  const code = value === null || !reasonCode ? null : reasonCode;
+  if (line.kind === 'labor') {
+    return { version, laborLines: [{ id: line.id, approvedHours: mode === 'hours' ? value : null, approvedAmountCents: mode === 'amount' ? value : null, reason: value === null ? null : r, reasonCode: code }] };
+  }
   if (line.kind === 'part') {
     return {
       version,
-      partLines: [{ id: line.id, approvedQuantity: mode === 'quantity' ? value : null, approvedAmountCents: mode === 'amount' ? value : null, reason: value === null ? null : r }],
+      partLines: [{ id: line.id, approvedQuantity: mode === 'quantity' ? value : null, approvedAmountCents: mode === 'amount' ? value : null, reason: value === null ? null : r, reasonCode: code }],
     };
   }
-  return { version, travel: { approvedAmountCents: value, reason: value === null ? null : r } };
+  return { version, travel: { approvedAmountCents: value, reason: value === null ? null : r, reasonCode: code } };
 }
 
 function LineEditor({ line, claim, onDone }: { line: LineView; claim: ClaimDetail; onDone: () => void }) {
@@ -106,7 +110,8 @@ function LineEditor({ line, claim, onDone }: { line: LineView; claim: ClaimDetai
   const [mode, setMode] = useState<Mode>(line.modes[0]);
   const [value, setValue] = useState('');
   const [reason, setReason] = useState('');
-  const [errors, setErrors] = useState<{ value?: string; reason?: string; form?: string }>({});
+  const [reasonCode, setReasonCode] = useState('');
+  const [errors, setErrors] = useState<{ value?: string; reason?: string; reasonCode?: string; form?: string }>({});
   const idBase = `adjust-${line.key}`;
 
   const apply = async () => {
@@ -121,7 +126,7 @@ function LineEditor({ line, claim, onDone }: { line: LineView; claim: ClaimDetai
       e.value = mode === 'hours' ? 'Enter the hours you approve, like 1.5.' : 'Enter the quantity you approve.';
     } else n = Number(t);
     if (reason.trim() === '') e.reason = 'Give the agency the reason for the adjustment.';
-    const body = n === null ? null : adjustmentBody(claim.version, line, mode, n, reason);
+    const body = n === null ? null : adjustmentBody(claim.version, line, mode, n, reason, reasonCode || null);
     if (body && !e.value) {
       const parsed = adjustmentsSchema.safeParse(body);
       if (!parsed.success) e.value = parsed.error.issues[0]?.message ?? 'This value is not accepted.';
@@ -135,8 +140,9 @@ function LineEditor({ line, claim, onDone }: { line: LineView; claim: ClaimDetai
       if (isApiError(err, 400) && err.fields) {
         const f = Object.entries(err.fields);
         setErrors({
-          value: f.find(([k]) => !k.endsWith('reason'))?.[1],
+          value: f.find(([k]) => !k.endsWith('reason') && !k.endsWith('reasonCode'))?.[1],
           reason: f.find(([k]) => k.endsWith('reason'))?.[1],
+          reasonCode: f.find(([k]) => k.endsWith('reasonCode'))?.[1],
         });
       } else if (isApiError(err, 409)) {
         setErrors({ form: 'Someone else changed this claim. It has been reloaded; check the line and adjust again.' });
@@ -175,6 +181,24 @@ function LineEditor({ line, claim, onDone }: { line: LineView; claim: ClaimDetai
             </p>
           )}
         </div>
+      </div>
+      <div className="space-y-1">
+        <label htmlFor={`${idBase}-code`} className="block text-sm font-medium text-ink-800">
+          Reason code (needed above what the agency entered)
+        </label>
+        <Select id={`${idBase}-code`} value={reasonCode} onChange={(e) => setReasonCode(e.target.value)} className="min-h-9 text-sm" aria-invalid={errors.reasonCode ? true : undefined} aria-describedby={errors.reasonCode ? `${idBase}-code-error` : undefined}>
+          <option value="">Not above the entry</option>
+          {reasonCodesFor('raise').map((c) => (
+            <option key={c} value={c}>
+              {REASON_CODES[c].label}
+            </option>
+          ))}
+        </Select>
+        {errors.reasonCode && (
+          <p id={`${idBase}-code-error`} className="text-sm font-medium text-red-800">
+            {errors.reasonCode}
+          </p>
+        )}
       </div>
       {errors.form && <Alert tone="warning">{errors.form}</Alert>}
       <div className="flex flex-wrap gap-2">
