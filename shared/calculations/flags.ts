@@ -15,6 +15,7 @@ export const FLAG_CODES = [
   'travel_distance_implausible',
   'readings_out_of_tolerance',
   'photo_reused',
+  'photo_reused_other_agency',
   'photo_outside_service_window',
   'photo_far_from_site',
 ] as const;
@@ -76,6 +77,11 @@ export const FLAG_INFO: Record<FlagCode, FlagInfo> = {
   photo_reused: {
     label: 'Photo reused',
     description: 'A photo is the same as, or nearly identical to, a photo on another claim.',
+    raisedBy: 'attachments',
+  },
+  photo_reused_other_agency: {
+    label: 'Photo reused from another agency’s claim',
+    description: 'A photo is the same as, or nearly identical to, a photo on a claim of another agency. Shown to the manufacturer only: an agency is never told what another agency holds.',
     raisedBy: 'attachments',
   },
   photo_outside_service_window: {

@@ -26,7 +26,7 @@ export interface AttachmentView {
   createdAt: string;
 }
 
-export type EvidenceFlagCode = 'photo_reused' | 'photo_outside_service_window' | 'photo_far_from_site' | 'readings_out_of_tolerance';
+export type EvidenceFlagCode = 'photo_reused' | 'photo_reused_other_agency' | 'photo_outside_service_window' | 'photo_far_from_site' | 'readings_out_of_tolerance';
 
 export interface EvidenceFlagView {
   code: EvidenceFlagCode;
@@ -99,6 +99,7 @@ export interface CsvImportError {
 
 export const evidenceFlagLabels: Record<EvidenceFlagCode, string> = {
   photo_reused: 'Photo reused',
+  photo_reused_other_agency: 'Photo reused from another agency’s claim',
   photo_outside_service_window: 'Photo taken outside the service window',
   photo_far_from_site: 'Photo taken far from the site',
   readings_out_of_tolerance: 'After-repair readings out of tolerance',

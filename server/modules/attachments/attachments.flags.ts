@@ -1,5 +1,7 @@
 import { and, eq, inArray, isNotNull, ne } from 'drizzle-orm';
+import { subject } from '@casl/ability';
 import type { Db } from '../../db/client';
+import type { AppAbility } from '@shared/permissions/ability';
 import { attachments, claimReadings, claims, readingSpecs, sites, units } from '../../db/schema/index';
 import { haversineKm } from '@shared/calculations/travel';
 import { attachmentRoleLabels, type AttachmentRole } from '@shared/schemas/claim';
@@ -21,7 +23,7 @@ export const DAYS_AFTER_REPAIR = 7;
  * is often off by a few hundred metres; 2 km leaves room for that and a large lot). */
 export const FAR_FROM_SITE_KM = 2;
 
-export type EvidenceFlagCode = 'photo_reused' | 'photo_outside_service_window' | 'photo_far_from_site' | 'readings_out_of_tolerance';
+export type EvidenceFlagCode = 'photo_reused' | 'photo_reused_other_agency' | 'photo_outside_service_window' | 'photo_far_from_site' | 'readings_out_of_tolerance';
 
 export interface EvidenceFlag {
   code: EvidenceFlagCode;
@@ -45,8 +47,27 @@ function describe(a: { originalName: string; role: string }): string {
 }
 
 export interface EvidenceFlagOptions {
-  /** Name the other claim's number even when it belongs to another agency (reviewers). */
+  /**
+   * The manufacturer's view: also compare with other agencies' claims (photo_reused_other_agency).
+   * Left out, only the claim's own agency is searched, and nothing about other agencies is said.
+   */
   revealOtherAgencies?: boolean;
+}
+
+/** Flags on a claim row that only the manufacturer's users see. */
+export const MANUFACTURER_ONLY_FLAGS: readonly string[] = ['photo_reused_other_agency'];
+
+/**
+ * Whether this user sees across agencies (the manufacturer's roles read every agency; an agency
+ * user reads only its own), from the same CASL rules that scope every query.
+ */
+export function seesEveryAgency(ability: AppAbility): boolean {
+  return ability.can('read', subject('Agency', { id: '' }));
+}
+
+/** The claim row's flags as this user may see them. */
+export function flagsForViewer(ability: AppAbility, flags: string[]): string[] {
+  return seesEveryAgency(ability) ? flags : flags.filter((f) => !MANUFACTURER_ONLY_FLAGS.includes(f));
 }
 
 /**
@@ -65,8 +86,19 @@ export function evidenceFlags(db: Db, claimId: string, opts: EvidenceFlagOptions
   const photos = mine.filter((a) => a.contentType.startsWith('image/'));
 
   // ---- reuse
-  const otherName = (c: { id: string; number: string; agencyId: string }) =>
-    opts.revealOtherAgencies || c.agencyId === claim.agencyId ? `claim ${c.number}` : 'a claim of another agency';
+  // The agency's view compares with its own claims only: whether another agency holds the same
+  // picture is the manufacturer's to know (it would tell one agency about another's work).
+  const manufacturerView = opts.revealOtherAgencies === true;
+  const sameAgency = eq(claims.agencyId, claim.agencyId);
+  type Hit = { claimId: string; number: string; agencyId: string };
+  const reuse = (p: (typeof photos)[number], code: 'photo_reused' | 'photo_reused_other_agency', hit: Hit, how: string) =>
+    flags.push({
+      code,
+      attachmentId: p.id,
+      otherClaimId: hit.claimId,
+      otherClaimNumber: hit.number,
+      message: `${describe(p)} ${how} a photo on claim ${hit.number}${code === 'photo_reused_other_agency' ? ' of another agency' : ''}.`,
+    });
   const flagged = new Set<string>();
   const shas = [...new Set(photos.map((p) => p.sha256))];
   if (shas.length > 0) {
@@ -74,21 +106,15 @@ export function evidenceFlags(db: Db, claimId: string, opts: EvidenceFlagOptions
       .select({ sha256: attachments.sha256, claimId: claims.id, number: claims.number, agencyId: claims.agencyId })
       .from(attachments)
       .innerJoin(claims, eq(claims.id, attachments.claimId))
-      .where(and(inArray(attachments.sha256, shas), ne(attachments.claimId, claimId)))
+      .where(and(inArray(attachments.sha256, shas), ne(attachments.claimId, claimId), manufacturerView ? undefined : sameAgency))
       .orderBy(claims.createdAt)
       .all();
     for (const p of photos) {
-      const hit = same.find((s) => s.sha256 === p.sha256);
-      if (hit && !flagged.has(p.id)) {
-        flagged.add(p.id);
-        flags.push({
-          code: 'photo_reused',
-          attachmentId: p.id,
-          otherClaimId: opts.revealOtherAgencies || hit.agencyId === claim.agencyId ? hit.claimId : undefined,
-          otherClaimNumber: opts.revealOtherAgencies || hit.agencyId === claim.agencyId ? hit.number : undefined,
-          message: `${describe(p)} is the same file as a photo on ${otherName({ id: hit.claimId, number: hit.number, agencyId: hit.agencyId })} (identical SHA-256).`,
-        });
-      }
+      const own = same.find((s) => s.sha256 === p.sha256 && s.agencyId === claim.agencyId);
+      const other = manufacturerView ? same.find((s) => s.sha256 === p.sha256 && s.agencyId !== claim.agencyId) : undefined;
+      if (own) reuse(p, 'photo_reused', own, 'is the same file (identical SHA-256) as');
+      if (other) reuse(p, 'photo_reused_other_agency', other, 'is the same file (identical SHA-256) as');
+      if (own || other) flagged.add(p.id);
     }
   }
   const hashed = photos.filter((p) => p.perceptualHash && !flagged.has(p.id));
@@ -97,25 +123,19 @@ export function evidenceFlags(db: Db, claimId: string, opts: EvidenceFlagOptions
       .select({ hash: attachments.perceptualHash, claimId: claims.id, number: claims.number, agencyId: claims.agencyId })
       .from(attachments)
       .innerJoin(claims, eq(claims.id, attachments.claimId))
-      .where(and(isNotNull(attachments.perceptualHash), ne(attachments.claimId, claimId)))
+      .where(and(isNotNull(attachments.perceptualHash), ne(attachments.claimId, claimId), manufacturerView ? undefined : sameAgency))
       .all();
     for (const p of hashed) {
-      let best: { d: number; o: (typeof others)[number] } | null = null;
+      const best: Record<'own' | 'other', { d: number; o: (typeof others)[number] } | null> = { own: null, other: null };
       for (const o of others) {
         if (!o.hash || o.hash.length !== p.perceptualHash!.length) continue;
         const d = hammingDistance(p.perceptualHash!, o.hash);
-        if (d <= PHASH_MAX_DISTANCE && (!best || d < best.d)) best = { d, o };
+        const k = o.agencyId === claim.agencyId ? 'own' : 'other';
+        if (d <= PHASH_MAX_DISTANCE && (!best[k] || d < best[k]!.d)) best[k] = { d, o };
       }
-      if (best) {
-        const reveal = opts.revealOtherAgencies || best.o.agencyId === claim.agencyId;
-        flags.push({
-          code: 'photo_reused',
-          attachmentId: p.id,
-          otherClaimId: reveal ? best.o.claimId : undefined,
-          otherClaimNumber: reveal ? best.o.number : undefined,
-          message: `${describe(p)} is nearly identical to a photo on ${otherName({ id: best.o.claimId, number: best.o.number, agencyId: best.o.agencyId })} (perceptual hashes differ in ${best.d} of 64 bits; at most ${PHASH_MAX_DISTANCE} counts as the same picture).`,
-        });
-      }
+      const how = (d: number) => `is nearly identical (perceptual hashes differ in ${d} of 64 bits; at most ${PHASH_MAX_DISTANCE} counts as the same picture) to`;
+      if (best.own) reuse(p, 'photo_reused', best.own.o, how(best.own.d));
+      if (best.other) reuse(p, 'photo_reused_other_agency', best.other.o, how(best.other.d));
     }
   }
 

@@ -26,6 +26,7 @@ import { abilityToSql } from '../../lib/casl-to-sql';
 import { allowancesOn, pricesOn } from '../admin/catalog.queries';
 import { ValidationError } from '../../lib/errors';
 import type { Action, AppAbility } from '@shared/permissions/ability';
+import { MANUFACTURER_ONLY_FLAGS, flagsForViewer, seesEveryAgency } from '../attachments/attachments.flags';
 import type { ClaimDetail, ClaimListItem, ClaimListQuery } from '@shared/schemas/claim';
 
 /** The only claim columns a CASL rule may constrain. */
@@ -185,6 +186,8 @@ export interface ClaimListPage {
 export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): ClaimListPage {
   const scope = claimScope(ability);
   const filters = listFilters(q);
+  // A flag only the manufacturer sees matches nothing for anyone else (the list agrees with the detail).
+  if (q.flag && MANUFACTURER_ONLY_FLAGS.includes(q.flag) && !seesEveryAgency(ability)) filters.push(sql`0 = 1`);
   // A scope that spans every agency (manufacturer roles) keeps most rows: say so to the planner,
   // so it walks the sort column's index instead of gathering the scope's rows and sorting them.
   const broad = !q.state && !q.states && !q.agency && spansAgencies(ability);
@@ -207,7 +210,7 @@ export function listClaims(db: Db, ability: AppAbility, q: ClaimListQuery): Clai
 
   const more = rows.length > q.limit;
   const page = more ? rows.slice(0, q.limit) : rows;
-  const items = page.map(toListItem);
+  const items = page.map((r) => toListItem(r, ability));
   const last = page[page.length - 1];
   return {
     items,
@@ -270,11 +273,11 @@ function cachedRaw(db: Db, text: string): Statement {
 const LIST_KEYS = Object.keys(listItemColumns) as (keyof ClaimListItem)[];
 const FLAGS_INDEX = LIST_KEYS.indexOf('flags');
 
-function toListItem(row: unknown[]): ClaimListItem {
+function toListItem(row: unknown[], ability: AppAbility): ClaimListItem {
   const item: Record<string, unknown> = {};
   for (let i = 0; i < LIST_KEYS.length; i++) item[LIST_KEYS[i]] = row[i];
   const flags = row[FLAGS_INDEX];
-  item.flags = typeof flags === 'string' ? (JSON.parse(flags) as string[]) : [];
+  item.flags = flagsForViewer(ability, typeof flags === 'string' ? (JSON.parse(flags) as string[]) : []);
   return item as unknown as ClaimListItem;
 }
 
@@ -300,7 +303,8 @@ export function listClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefi
     .where(extra ? and(claimScope(ability), extra) : claimScope(ability))
     .orderBy(...orderBy)
     .limit(opts.limit)
-    .all() as ClaimListItem[];
+    .all()
+    .map((item) => ({ ...item, flags: flagsForViewer(ability, item.flags) })) as ClaimListItem[];
 }
 
 export function countClaimsWhere(db: Db, ability: AppAbility, extra: SQL | undefined): number {

@@ -44,6 +44,7 @@ import type { Valuation } from '@shared/calculations/valuation';
 import { claimLink, queueMoveMail, queueReviewHandMail } from './claims.mail';
 import { formatCents } from '@shared/calculations/money';
 import { enqueueMail } from '../../lib/mail/outbox';
+import { flagsForViewer } from '../attachments/attachments.flags';
 
 export interface Actor {
   ctx: RequestContext;
@@ -115,7 +116,14 @@ export function createClaimsService(deps: AppDeps) {
       .filter((action) => !held || (action === 'approve' && confirmable))
       .filter((action) => !(action === 'approve' && row.firstApprovedBy === user.id));
     const firstApproval = data.firstApproval ? { ...data.firstApproval, byYou: row.firstApprovedBy === user.id } : null;
-    return { ...data, firstApproval, heldByYou: row.state === 'in_review' && row.reviewerId === user.id, canTakeOver: held && can(a, 'adjust', row), allowedActions };
+    return {
+      ...data,
+      flags: flagsForViewer(a.ctx.ability, data.flags),
+      firstApproval,
+      heldByYou: row.state === 'in_review' && row.reviewerId === user.id,
+      canTakeOver: held && can(a, 'adjust', row),
+      allowedActions,
+    };
   }
 
   function get(a: Actor, id: string): ClaimDetail {
