@@ -10,6 +10,7 @@ import { SessionTokens } from './lib/session';
 import { RateStore } from './lib/rate-store';
 import type { AppDeps } from './lib/deps';
 import { authenticate } from './middleware/authenticate';
+import { limitWrites } from './middleware/rate-limit';
 import { csrfGuard, hostAllowList, localMailboxOnly, noStore, securityHeaders, siteNames } from './middleware/security';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
 import { mountApi } from './routes';
@@ -65,6 +66,7 @@ export function createApp(opts: CreateAppOptions): App {
   api.use(express.json({ limit: '256kb', strict: true }));
   api.use(cookieParser());
   api.use(authenticate({ db: deps.db, tokens: deps.tokens, clock, secureCookies: deps.secureCookies }));
+  api.use(limitWrites(deps));
   api.use(idempotency({ db: deps.db, clock }));
   mountApi(api, deps);
   api.use(apiNotFound);

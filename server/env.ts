@@ -54,6 +54,10 @@ const baseSchema = z.object({
   UPLOAD_AGENCY_QUOTA_BYTES: z.coerce.number().int().min(1).default(10 * 1024 * 1024 * 1024),
   /** Uploads one user may have in progress at once (held as lease rows in the database). */
   UPLOAD_MAX_CONCURRENT_PER_USER: z.coerce.number().int().min(1).max(50).default(2),
+  /** Per signed-in user and minute (SQLite rate store): unsafe API requests, upload requests, unit look-ups. */
+  RATE_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(240),
+  RATE_UPLOADS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  RATE_UNIT_LOOKUPS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
 });
 
 export const envSchema = baseSchema

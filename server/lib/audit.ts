@@ -53,6 +53,24 @@ function insertRow(t: Db, id: string, at: string, e: AuditEntry, detail: Record<
 }
 
 /**
+ * Outside a transaction, a counting write commits with `synchronous = NORMAL`: a flood of
+ * refusals then costs no fsync each (a power cut may lose the last few counts; the audit row
+ * of each first occurrence is written with the connection's own level, FULL, which syncs them).
+ */
+function relaxedSync<T>(t: Db, fn: () => T): T {
+  const c = (t as Partial<Db>).$client;
+  if (!c || c.inTransaction) return fn();
+  const level = c.pragma('synchronous', { simple: true }) as number;
+  if (level <= 1) return fn();
+  c.pragma('synchronous = NORMAL');
+  try {
+    return fn();
+  } finally {
+    c.pragma(`synchronous = ${level}`);
+  }
+}
+
+/**
  * Appends one security audit row (UTC). Rows cannot be updated or deleted (database triggers),
  * so repeats are counted in `audit_repeats` and summarised by `flushAuditRepeats`.
  */
@@ -64,12 +82,14 @@ export function writeAudit(t: Db, clock: Clock, e: AuditEntry): void {
   const id = newId();
   if (e.outcome !== 'success' && e.repeats !== 'keep') {
     const { repeats: _r, ...entry } = e;
-    const row = t
-      .insert(auditRepeats)
-      .values({ key: repeatKey(e), minute, count: 1, firstId: id, lastAt: at, entry: entry as Record<string, unknown> })
-      .onConflictDoUpdate({ target: [auditRepeats.key, auditRepeats.minute], set: { count: sql`${auditRepeats.count} + 1`, lastAt: at } })
-      .returning({ count: auditRepeats.count })
-      .get();
+    const row = relaxedSync(t, () =>
+      t
+        .insert(auditRepeats)
+        .values({ key: repeatKey(e), minute, count: 1, firstId: id, lastAt: at, entry: entry as Record<string, unknown> })
+        .onConflictDoUpdate({ target: [auditRepeats.key, auditRepeats.minute], set: { count: sql`${auditRepeats.count} + 1`, lastAt: at } })
+        .returning({ count: auditRepeats.count })
+        .get(),
+    );
     if (row && row.count > 1) return;
   }
   insertRow(t, id, at, e, e.detail ?? null);

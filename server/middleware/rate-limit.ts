@@ -1,6 +1,7 @@
 import type { Request, RequestHandler } from 'express';
 import { ipKeyGenerator } from 'express-rate-limit';
 import type { Db } from '../db/client';
+import type { Env } from '../env';
 import { writeAudit } from '../lib/audit';
 import type { Clock } from '../lib/clock';
 import { TooManyRequestsError } from '../lib/errors';
@@ -88,4 +89,39 @@ export function limitPerUser(deps: { rates: RateStore; db: Db; clock: Clock }, r
     });
     throw new TooManyRequestsError(d.retryAfterSec, opts.message);
   };
+}
+
+const MINUTE_MS = 60_000;
+
+/** The per-user rules of the API, from the configuration. */
+export function userRateRules(env: Pick<Env, 'RATE_WRITES_PER_MINUTE' | 'RATE_UPLOADS_PER_MINUTE' | 'RATE_UNIT_LOOKUPS_PER_MINUTE'>) {
+  return {
+    writes: { name: 'user.writes', tiers: [{ limit: env.RATE_WRITES_PER_MINUTE, windowMs: MINUTE_MS }] } satisfies RateRule,
+    uploads: { name: 'user.uploads', tiers: [{ limit: env.RATE_UPLOADS_PER_MINUTE, windowMs: MINUTE_MS }] } satisfies RateRule,
+    unitLookups: { name: 'user.unit_lookups', tiers: [{ limit: env.RATE_UNIT_LOOKUPS_PER_MINUTE, windowMs: MINUTE_MS }] } satisfies RateRule,
+  };
+}
+
+const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+/**
+ * Per-account write rate: every unsafe API request of a signed-in user counts (sign-in and
+ * sign-out under /auth do not, so nobody is kept from leaving). Mounted after authenticate.
+ */
+export function limitWrites(deps: { rates: RateStore; db: Db; clock: Clock; env: Env }): RequestHandler {
+  return limitPerUser(deps, userRateRules(deps.env).writes, {
+    action: 'api.write',
+    message: 'Too many changes in a short time. Wait a moment and try again.',
+    when: (req) => UNSAFE.has(req.method) && !req.path.startsWith('/auth/'),
+  });
+}
+
+/** Upload requests per user and minute; put it on the upload routes after requireUser. */
+export function limitUploads(deps: { rates: RateStore; db: Db; clock: Clock; env: Env }): RequestHandler {
+  return limitPerUser(deps, userRateRules(deps.env).uploads, { action: 'attachment.upload', message: 'Too many uploads in a minute. Wait a moment and try again.' });
+}
+
+/** Serial-number look-ups per user and minute (serial numbers are guessable). */
+export function limitUnitLookups(deps: { rates: RateStore; db: Db; clock: Clock; env: Env }): RequestHandler {
+  return limitPerUser(deps, userRateRules(deps.env).unitLookups, { action: 'unit.lookup', message: 'Too many unit look-ups in a minute. Wait a moment and try again.' });
 }

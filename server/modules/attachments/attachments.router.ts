@@ -3,7 +3,7 @@ import multer, { MulterError } from 'multer';
 import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
-import { clientAddress } from '../../middleware/rate-limit';
+import { clientAddress, limitUploads } from '../../middleware/rate-limit';
 import { NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
 import { writeAudit } from '../../lib/audit';
 import { storageFor } from '../../lib/storage/create-storage';
@@ -156,7 +156,8 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
     res.json(body);
   });
 
-  r.post('/claims/:id/attachments', requireUser, validId, async (req, res) => {
+  // limitUploads: upload requests per user and minute (429 with Retry-After).
+  r.post('/claims/:id/attachments', requireUser, limitUploads(deps), validId, async (req, res) => {
     const ctx = requireCtx(req);
     const claimId = String(req.params.id);
     const ip = clientAddress(req);

@@ -3,7 +3,7 @@ import multer, { MulterError } from 'multer';
 import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
-import { clientAddress } from '../../middleware/rate-limit';
+import { clientAddress, limitUploads } from '../../middleware/rate-limit';
 import { NotFoundError, PayloadTooLargeError, UnsupportedMediaTypeError, ValidationError } from '../../lib/errors';
 import { storageFor } from '../../lib/storage/create-storage';
 import type { Storage } from '../../lib/storage/storage';
@@ -52,7 +52,8 @@ export function readingsRouter(deps: AppDeps, opts: { storage?: Storage; limits?
     res.json(claimReadingsReport(deps.db, claim));
   });
 
-  r.post('/claims/:id/readings/import', requireUser, validId, async (req, res) => {
+  // limitUploads: upload requests per user and minute (429 with Retry-After).
+  r.post('/claims/:id/readings/import', requireUser, limitUploads(deps), validId, async (req, res) => {
     const ctx = requireCtx(req);
     const claimId = String(req.params.id);
     const ip = clientAddress(req);
