@@ -23,6 +23,9 @@ export function isLoopbackHost(host: string): boolean {
  * Every setting has a default that runs out of the box on one machine. Two modes follow from
  * SMTP_URL: unset is the demo (local mail sink and mailbox, loopback only), set is a deployment.
  */
+/** Per-user rates by default: generous for autosave and an offline queue replaying, tight for scripts. */
+export const DEFAULT_USER_RATES = { RATE_WRITES_PER_MINUTE: 240, RATE_UPLOADS_PER_MINUTE: 30, RATE_UNIT_LOOKUPS_PER_MINUTE: 30 } as const;
+
 const baseSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
@@ -55,9 +58,9 @@ const baseSchema = z.object({
   /** Uploads one user may have in progress at once (held as lease rows in the database). */
   UPLOAD_MAX_CONCURRENT_PER_USER: z.coerce.number().int().min(1).max(50).default(2),
   /** Per signed-in user and minute (SQLite rate store): unsafe API requests, upload requests, unit look-ups. */
-  RATE_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(240),
-  RATE_UPLOADS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
-  RATE_UNIT_LOOKUPS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  RATE_WRITES_PER_MINUTE: z.coerce.number().int().min(1).default(DEFAULT_USER_RATES.RATE_WRITES_PER_MINUTE),
+  RATE_UPLOADS_PER_MINUTE: z.coerce.number().int().min(1).default(DEFAULT_USER_RATES.RATE_UPLOADS_PER_MINUTE),
+  RATE_UNIT_LOOKUPS_PER_MINUTE: z.coerce.number().int().min(1).default(DEFAULT_USER_RATES.RATE_UNIT_LOOKUPS_PER_MINUTE),
 });
 
 export const envSchema = baseSchema

@@ -5,13 +5,16 @@ import { join } from 'node:path';
 import request from 'supertest';
 import { openDatabase, type Db } from '../../server/db/client';
 import { createApp } from '../../server/app';
-import { parseEnv, type Env } from '../../server/env';
+import { DEFAULT_USER_RATES as USER_RATES, parseEnv, type Env } from '../../server/env';
 import { MailSink } from '../../server/lib/mail/sink';
 import { smtpMailer } from '../../server/lib/mail/mailer';
 import { seedDemo } from '../../server/db/seed/demo';
 import type { Clock } from '../../server/lib/clock';
 
 export const DEMO_PASSWORD = 'fieldproof-demo';
+
+/** The per-user rate limits as a deployment has them by default (the factory raises them otherwise). */
+export const DEFAULT_USER_RATES = Object.fromEntries(Object.entries(USER_RATES).map(([k, v]) => [k, String(v)]));
 export const demoAccounts = {
   techA: 'tech@harborview.test',
   adminA: 'admin@harborview.test',
@@ -64,6 +67,11 @@ export async function makeTestApp(opts: { seed?: boolean; clock?: Clock; env?: P
     STORAGE_DIR: join(dir, 'files'),
     BCRYPT_COST: '4',
     PUBLIC_URL: 'http://localhost:3000',
+    // Tests replay thousands of requests on a frozen clock; the per-user rates are measured with
+    // their defaults in rate-limits.test.ts (pass DEFAULT_USER_RATES to get them).
+    RATE_WRITES_PER_MINUTE: '1000000',
+    RATE_UPLOADS_PER_MINUTE: '1000000',
+    RATE_UNIT_LOOKUPS_PER_MINUTE: '1000000',
     ...opts.env,
   });
   const db = openDatabase(env.DATABASE_PATH);

@@ -4,7 +4,7 @@ import type { Server } from 'node:http';
 import { and, eq, sql } from 'drizzle-orm';
 import { auditLog } from '../../server/db/schema/index';
 import { flushAuditRepeats } from '../../server/lib/audit';
-import { DEMO_PASSWORD, TestClock, demoAccounts, makeTestApp, type TestApp } from '../factories/test-app';
+import { DEFAULT_USER_RATES, DEMO_PASSWORD, TestClock, demoAccounts, makeTestApp, type TestApp } from '../factories/test-app';
 
 // Per-user limits on writes, uploads and unit look-ups (OWASP ASVS 5.0 2.4.1, anti-automation),
 // counted in the SQLite rate store on the app clock, and the audit log kept from flooding.
@@ -27,7 +27,7 @@ describe('4,000+ refused writes from one account', () => {
   let server: Server;
   const clock = new TestClock();
   beforeAll(async () => {
-    t = await makeTestApp({ clock });
+    t = await makeTestApp({ clock, env: DEFAULT_USER_RATES });
     server = t.app.listen(0, '127.0.0.1');
   });
   afterAll(async () => {
@@ -97,7 +97,7 @@ describe('4,000+ refused writes from one account', () => {
 describe('serial-number look-ups', () => {
   it('are throttled per user: 300 guessed serials answer 30 times, then 429 with Retry-After; another user is not held', async () => {
     const clock = new TestClock();
-    const t = await makeTestApp({ clock });
+    const t = await makeTestApp({ clock, env: DEFAULT_USER_RATES });
     try {
       const techA = await t.signIn('techA');
       const statuses: number[] = [];
@@ -123,7 +123,7 @@ describe('serial-number look-ups', () => {
 describe('uploads per user and minute', () => {
   it('the 31st upload request within a minute answers 429 with Retry-After, before the body is read', async () => {
     const clock = new TestClock();
-    const t = await makeTestApp({ clock });
+    const t = await makeTestApp({ clock, env: DEFAULT_USER_RATES });
     try {
       const techA = await t.signIn('techA');
       const statuses: number[] = [];
