@@ -21,6 +21,8 @@ export interface AttachmentView {
   hasThumbnail: boolean;
   url: string;
   thumbnailUrl: string;
+  /** A re-encoded JPEG for the lightbox (never the uploaded bytes). */
+  previewUrl: string;
   uploadedBy: string;
   uploadedByName: string | null;
   createdAt: string;

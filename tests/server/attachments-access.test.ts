@@ -27,7 +27,7 @@ describe('who may fetch an attachment and its thumbnail', () => {
     await t.close();
   });
 
-  const paths = (id: string) => [`/api/attachments/${id}`, `/api/attachments/${id}/thumbnail`];
+  const paths = (id: string) => [`/api/attachments/${id}`, `/api/attachments/${id}/thumbnail`, `/api/attachments/${id}/preview`];
 
   it('the technician who owns the claim and the admin of the same agency may', async () => {
     for (const who of ['techA', 'adminA'] as const) {

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import sharp from 'sharp';
+import type request from 'supertest';
 import { makeTestApp, type TestApp } from '../factories/test-app';
 import { editableClaimOf, snapshot } from '../fixtures/evidence-app';
 import { scenePhoto, pngScene, simplePdf, undecodableHeic, webpScene } from '../fixtures/photos';
@@ -185,6 +186,38 @@ describe('active content is refused with 415 and a reason', () => {
 
     it('boxes that do not fill the file exactly', async () => {
       await refused(Buffer.concat([undecodableHeic(), Buffer.from([1, 2, 3])]), 'short.heic', 'heic_broken');
+    });
+  });
+
+  describe('previews and thumbnails are re-encoded, the original only downloads', () => {
+    it('a photo with EXIF and a comment: the preview and thumbnail are new JPEGs without its metadata; the original is an attachment with nosniff and a sandbox', async () => {
+      const original = await scenePhoto(931, { width: 2400, height: 1800, exif: { takenAt: '2026:03:05 10:00:00', offset: '-05:00', latitude: 41.5, longitude: -87.6 } });
+      const res = await tech.post(url).set('Origin', ORIGIN).attach('files', original, 'big.jpg');
+      expect(res.status).toBe(201);
+      const a = res.body.attachments[0];
+      const binary = (r: request.Request) => r.buffer(true).parse((resp, cb) => {
+        const chunks: Buffer[] = [];
+        resp.on('data', (c: Buffer) => chunks.push(c));
+        resp.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+      for (const [path, longest] of [[a.previewUrl, 1600], [a.thumbnailUrl, 480]] as const) {
+        const r = await binary(tech.get(path));
+        expect(r.status).toBe(200);
+        expect(r.headers['content-type']).toBe('image/jpeg');
+        expect(r.headers['x-content-type-options']).toBe('nosniff');
+        expect(r.headers['content-security-policy']).toMatch(/sandbox/);
+        const body = r.body as Buffer;
+        expect(body.equals(original)).toBe(false);
+        const m = await sharp(body).metadata();
+        expect(m.format).toBe('jpeg');
+        expect(Math.max(m.width!, m.height!)).toBe(longest);
+        expect(m.exif).toBeUndefined();
+      }
+      const dl = await binary(tech.get(a.url));
+      expect(dl.headers['content-disposition']).toMatch(/^attachment/);
+      expect(dl.headers['x-content-type-options']).toBe('nosniff');
+      expect(dl.headers['content-security-policy']).toMatch(/sandbox/);
+      expect((dl.body as Buffer).equals(original)).toBe(true);
     });
   });
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createServer, request as httpRequest, type ClientRequest, type Server } from 'node:http';
 import { join } from 'node:path';
+import { hostname } from 'node:os';
 import request from 'supertest';
 import { makeTestApp, demoAccounts, DEMO_PASSWORD, type TestApp } from '../factories/test-app';
 import { editableClaimOf, storedFiles } from '../fixtures/evidence-app';
@@ -105,5 +106,18 @@ describe('concurrent uploads per user', () => {
     t.db.$client.prepare("update upload_leases set expires_at = '2000-01-01T00:00:00.000Z'").run();
     expect((await a.post(urlA).set('Origin', ORIGIN).attach('files', jpeg, 'y.jpg')).status).toBe(201);
     await until(() => leases() === 0, 'the lease to be released');
+  });
+
+  it('leases left by a killed process on this host are freed at once (its pid is gone, or it is this pid after a restart)', async () => {
+    const userId = (t.db.$client.prepare('select id from users where email = ?').get(demoAccounts.techA) as { id: string }).id;
+    const future = new Date(Date.now() + 60_000).toISOString();
+    const insert = t.db.$client.prepare('insert into upload_leases (id, user_id, expires_at, created_at) values (?, ?, ?, ?)');
+    const host = hostname().replace(/:/g, '_');
+    // pid 2^22 + 1 is above Linux's default pid_max (proc(5)), so no process has it.
+    insert.run(`${host}:4194305:gone`, userId, future, new Date().toISOString());
+    insert.run(`${host}:${process.pid}:before-restart`, userId, future, new Date().toISOString());
+    const a = await t.signIn('techA');
+    expect((await a.post(urlA).set('Origin', ORIGIN).attach('files', jpeg, 'z.jpg')).status).toBe(201);
+    await until(() => leases() === 0, 'the stale leases to go');
   });
 });

@@ -663,6 +663,13 @@ export const routes: RouteCase[] = [
   },
   {
     method: 'GET',
+    route: '/api/attachments/:id/preview',
+    ids: { id: 'attachment' },
+    build: ({ f }) => ({ params: { id: f.attachmentA } }),
+    expect: x(401, OK, OK, 404, OK, 404, 404),
+  },
+  {
+    method: 'GET',
     route: '/api/attachments/:id/thumbnail',
     ids: { id: 'attachment' },
     build: ({ f }) => ({ params: { id: f.attachmentA } }),

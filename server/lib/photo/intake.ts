@@ -1,6 +1,7 @@
 import { createReadStream } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { stat } from 'node:fs/promises';
+import { availableParallelism } from 'node:os';
 import { pipeline } from 'node:stream/promises';
 import sharp from 'sharp';
 import { PayloadTooLargeError, UnsupportedMediaTypeError } from '../errors';
@@ -17,6 +18,24 @@ async function sha256OfFile(path: string): Promise<string> {
   const h = createHash('sha256');
   await pipeline(createReadStream(path, { highWaterMark: 1 << 20 }), h);
   return h.digest('hex');
+}
+
+/**
+ * At most one file per core is decoded at a time in this process: more in parallel would only
+ * queue for the CPU while each held its decoder's buffers, so memory would grow with the number
+ * of uploads in flight instead of staying flat.
+ */
+const slots = { free: Math.max(1, availableParallelism()), waiting: [] as Array<() => void> };
+async function inSlot<T>(fn: () => Promise<T>): Promise<T> {
+  if (slots.free > 0) slots.free--;
+  else await new Promise<void>((resolve) => slots.waiting.push(resolve));
+  try {
+    return await fn();
+  } finally {
+    const next = slots.waiting.shift();
+    if (next) next();
+    else slots.free++;
+  }
 }
 
 /** Decoding bombs stop here: 100 megapixels covers every phone camera's full-size photo. */
@@ -59,6 +78,10 @@ export async function intakeFile(input: string | Buffer, name: string): Promise<
     }
   }
   const path = input;
+  return inSlot(() => intakePath(path, name));
+}
+
+async function intakePath(path: string, name: string): Promise<IntakeResult> {
   const t0 = performance.now();
   const { size } = await stat(path);
   const type = await checkFileType(path, size, name);

@@ -1,5 +1,6 @@
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import multer, { MulterError } from 'multer';
+import sharp from 'sharp';
 import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
@@ -12,6 +13,7 @@ import type { Storage } from '../../lib/storage/storage';
 import { checkOriginalName, contentDisposition, extensionOf } from '../../lib/photo/file-name';
 import { ALLOWED } from '../../lib/photo/file-check';
 import { placeholderThumbnail, PLACEHOLDER_CONTENT_TYPE } from '../../lib/photo/thumbnail';
+import { MAX_IMAGE_PIXELS } from '../../lib/photo/intake';
 import { attachmentRoles, type AttachmentRole } from '@shared/schemas/claim';
 import type { ClaimEvidence } from '@shared/schemas/evidence';
 import { findReadableClaim } from '../claims/claims.queries';
@@ -21,6 +23,8 @@ import { evidenceFlags } from './attachments.flags';
 import { createUploadLeases, type UploadLeaseHandle } from './attachments.leases';
 
 const ROUTE_ID = /^[A-Za-z0-9-]{1,64}$/;
+/** Longest side of the lightbox preview, in pixels. */
+const PREVIEW_SIZE = 1600;
 
 /** Served files never run as a page: no sniffing, a sandbox with nothing allowed, never cached. */
 export function setDownloadHeaders(res: Response, contentType: string, disposition: string, size?: number) {
@@ -205,6 +209,30 @@ export function attachmentsRouter(deps: AppDeps, opts: { storage?: Storage; limi
     setDownloadHeaders(res, a.contentType, contentDisposition(a.originalName, 'attachment'), obj.size);
     obj.stream.on('error', () => res.destroy());
     obj.stream.pipe(res);
+  });
+
+  /**
+   * The lightbox's view of a photo: always a JPEG re-encoded here (upright, at most 1600 px, no
+   * metadata), never the uploaded bytes; a placeholder where no thumbnail could be made.
+   */
+  r.get('/attachments/:id/preview', requireUser, validId, async (req, res) => {
+    const ctx = requireCtx(req);
+    const a = findReadableAttachment(deps.db, ctx.ability, String(req.params.id));
+    if (!a) throw new NotFoundError();
+    const base = a.originalName.replace(/\.[^.]*$/, '');
+    const obj = a.thumbnailKey && a.contentType.startsWith('image/') ? await storage.open(a.storageKey) : null;
+    if (obj) {
+      const encoder = sharp({ limitInputPixels: MAX_IMAGE_PIXELS, failOn: 'truncated' }).rotate().resize(PREVIEW_SIZE, PREVIEW_SIZE, { fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 82 });
+      obj.stream.on('error', (e) => encoder.destroy(e));
+      const jpeg = await obj.stream.pipe(encoder).toBuffer();
+      setDownloadHeaders(res, 'image/jpeg', contentDisposition(`${base}-preview.jpg`, 'inline'), jpeg.length);
+      res.end(jpeg);
+      return;
+    }
+    const kind = a.contentType === 'image/heic' ? 'heic' : a.contentType === 'application/pdf' ? 'pdf' : a.contentType.startsWith('text/csv') ? 'csv' : 'image';
+    const png = await placeholderThumbnail(kind);
+    setDownloadHeaders(res, PLACEHOLDER_CONTENT_TYPE, contentDisposition(`${base}-placeholder.png`, 'inline'), png.length);
+    res.end(png);
   });
 
   r.get('/attachments/:id/thumbnail', requireUser, validId, async (req, res) => {

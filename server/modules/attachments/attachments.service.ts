@@ -81,6 +81,7 @@ export function toView(a: Attachment & { uploadedByName?: string | null }): Atta
     hasThumbnail: a.thumbnailKey !== null,
     url: `/api/attachments/${a.id}`,
     thumbnailUrl: `/api/attachments/${a.id}/thumbnail`,
+    previewUrl: `/api/attachments/${a.id}/preview`,
     uploadedBy: a.uploadedBy,
     uploadedByName: a.uploadedByName ?? null,
     createdAt: a.createdAt,

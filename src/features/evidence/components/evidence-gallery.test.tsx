@@ -33,6 +33,7 @@ const base: AttachmentView = {
   hasThumbnail: true,
   url: '/api/attachments/a1',
   thumbnailUrl: '/api/attachments/a1/thumbnail',
+  previewUrl: '/api/attachments/a1/preview',
   uploadedBy: 'u1',
   uploadedByName: 'A technician',
   createdAt: '2026-03-12T10:00:00.000Z',
@@ -40,7 +41,7 @@ const base: AttachmentView = {
 
 describe('EvidenceGallery', () => {
   it('shows thumbnails with their flags and opens the full image with the reasons', async () => {
-    const heic: AttachmentView = { ...base, id: 'a2', originalName: 'IMG_1.HEIC', contentType: 'image/heic', hasThumbnail: false, url: '/api/attachments/a2', thumbnailUrl: '/api/attachments/a2/thumbnail' };
+    const heic: AttachmentView = { ...base, id: 'a2', originalName: 'IMG_1.HEIC', contentType: 'image/heic', hasThumbnail: false, url: '/api/attachments/a2', thumbnailUrl: '/api/attachments/a2/thumbnail', previewUrl: '/api/attachments/a2/preview' };
     const flags: EvidenceFlagView[] = [{ code: 'photo_outside_service_window', attachmentId: 'a1', message: 'Photo "part.jpg" (failed part) was taken 2026:03:09 23:30:00 (UTC-08:00), before the failure date 2026-03-10.' }];
     const user = userEvent.setup();
     render(<EvidenceGallery attachments={[base, heic]} flags={flags} />);
@@ -52,7 +53,7 @@ describe('EvidenceGallery', () => {
 
     await user.click(screen.getByRole('button', { name: 'Open Failed part: part.jpg' }));
     const dialog = screen.getByRole('dialog');
-    expect(within(dialog).getByRole('img', { name: /part\.jpg/ })).toHaveAttribute('src', '/api/attachments/a1');
+    expect(within(dialog).getByRole('img', { name: /part\.jpg/ })).toHaveAttribute('src', '/api/attachments/a1/preview');
     expect(dialog).toHaveTextContent('2026-03-09 23:30:00 (UTC-08:00)');
     expect(dialog).toHaveTextContent('before the failure date 2026-03-10');
     await user.click(within(dialog).getByRole('button', { name: 'Close' }));

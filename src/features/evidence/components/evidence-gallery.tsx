@@ -36,7 +36,7 @@ function Lightbox({ attachment, flags, onClose }: { attachment: AttachmentView; 
       <div className="grid gap-4 p-4 md:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="flex items-center justify-center bg-ink-50">
           {viewable(attachment) ? (
-            <img src={attachment.url} alt={`${attachmentRoleLabels[attachment.role]} photo ${attachment.originalName}`} className="max-h-[75vh] w-auto object-contain" />
+            <img src={attachment.previewUrl} alt={`${attachmentRoleLabels[attachment.role]} photo ${attachment.originalName}`} className="max-h-[75vh] w-auto object-contain" />
           ) : (
             <img src={attachment.thumbnailUrl} alt={`Preview of ${attachment.originalName}`} className="max-h-[60vh] w-auto object-contain" />
           )}
