@@ -558,7 +558,9 @@ export function seedDemo(db: Db, opts: SeedOptions): SeedSummary {
     revision: u.revision,
     shipDate: u.shipDate,
     installDate: u.installDate,
-    siteId: siteRows[u.siteIndex].id,
+    // The manufacturer's registration: a unit whose installation was registered (install date and
+    // place) carries its site; the others are known at a site only from the claims filed on them.
+    siteId: u.installDate ? siteRows[u.siteIndex].id : null,
     createdAt: iso(dayStart(u.shipDate) + 14 * HOUR),
   }));
 

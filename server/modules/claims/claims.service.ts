@@ -45,6 +45,7 @@ import { claimLink, queueMoveMail, queueReviewHandMail } from './claims.mail';
 import { formatCents } from '@shared/calculations/money';
 import { enqueueMail } from '../../lib/mail/outbox';
 import { flagsForViewer } from '../attachments/attachments.flags';
+import { visibleSiteId } from '../units/units.queries';
 
 export interface Actor {
   ctx: RequestContext;
@@ -279,7 +280,8 @@ export function createClaimsService(deps: AppDeps) {
           agencyId,
           technicianId: user.id,
           unitId: unit.id,
-          siteId: unit.siteId,
+          // only a site this agency may know: its own claims' or the manufacturer's registration
+          siteId: visibleSiteId(t, unit, { organisationKind: 'agency', organisationId: agencyId }),
           state: 'draft',
           version: 1,
           currency: t.select({ currency: organisations.currency }).from(organisations).where(eq(organisations.id, agencyId)).get()?.currency ?? 'USD',
@@ -314,7 +316,7 @@ export function createClaimsService(deps: AppDeps) {
       const set: Partial<NewClaim> = { ...scalarFields(body), version: row.version + 1, updatedAt: now };
       if (body.serial !== undefined) {
         set.unitId = unit && body.serial.trim() !== '' ? unit.id : null;
-        set.siteId = unit && body.serial.trim() !== '' ? unit.siteId : null;
+        set.siteId = unit && body.serial.trim() !== '' ? visibleSiteId(t, unit, { organisationKind: 'agency', organisationId: row.agencyId }) : null;
       }
       const r = t
         .update(claims)

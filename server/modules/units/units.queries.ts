@@ -1,6 +1,6 @@
-import { eq, sql } from 'drizzle-orm';
+import { and, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { componentTerms, models, productFamilies, sites, units } from '../../db/schema/index';
+import { claims, componentTerms, models, productFamilies, sites, units } from '../../db/schema/index';
 
 /** A unit by serial (exact, then ignoring case) with its model, family and site. Units are catalogue data, not tenant-owned. */
 export function findUnitBySerial(db: Db, serial: string) {
@@ -48,4 +48,29 @@ export function findSite(db: Db, siteId: string) {
 
 export function componentTermsOf(db: Db, modelId: string) {
   return db.select({ partId: componentTerms.partId, partsMonths: componentTerms.partsMonths, label: componentTerms.label }).from(componentTerms).where(eq(componentTerms.modelId, modelId)).all();
+}
+
+export interface SiteViewer {
+  organisationKind: 'manufacturer' | 'agency';
+  organisationId: string;
+}
+
+/**
+ * The site a user may learn for a unit. An agency learns it from its own claims on the unit (the
+ * latest repair that carries a site) or from the manufacturer's registration (units.site_id, which
+ * only the manufacturer's data writes); never from another agency's claims, which would tell it
+ * where that agency works. The manufacturer sees the registration, else the latest claim's site.
+ * Walks claims_unit_idx (unit_id, repair_date): a handful of rows per unit.
+ */
+export function visibleSiteId(db: Db, unit: { id: string; siteId: string | null }, viewer: SiteViewer): string | null {
+  const own = viewer.organisationKind === 'agency';
+  if (!own && unit.siteId) return unit.siteId;
+  const fromClaims = db
+    .select({ siteId: claims.siteId })
+    .from(claims)
+    .where(and(eq(claims.unitId, unit.id), isNotNull(claims.siteId), own ? eq(claims.agencyId, viewer.organisationId) : undefined))
+    .orderBy(desc(claims.repairDate), desc(claims.createdAt))
+    .limit(1)
+    .get();
+  return fromClaims?.siteId ?? unit.siteId ?? null;
 }

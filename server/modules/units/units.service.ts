@@ -7,7 +7,7 @@ import { claims } from '../../db/schema/index';
 import { computeCoverage } from '@shared/calculations/coverage';
 import type { UnitLookup } from '@shared/schemas/unit';
 import { listClaimsWhere } from '../claims/claims.queries';
-import { componentTermsOf, findSite, findUnitBySerial } from './units.queries';
+import { componentTermsOf, findSite, findUnitBySerial, visibleSiteId } from './units.queries';
 
 export function createUnitsService(deps: AppDeps) {
   function lookup(ctx: RequestContext, serial: string, on: string | undefined): UnitLookup {
@@ -22,12 +22,13 @@ export function createUnitsService(deps: AppDeps) {
       terms: found.model,
       componentTerms: componentTermsOf(deps.db, found.model.id),
     });
+    const siteId = visibleSiteId(deps.db, { id: found.unit.id, siteId: found.siteId }, ctx.user);
     const priorClaims = listClaimsWhere(deps.db, ctx.ability, eq(claims.unitId, found.unit.id), { order: 'newest_repair', limit: 50 });
     return {
       unit: found.unit,
       model: found.model,
       family: found.family,
-      site: found.siteId ? findSite(deps.db, found.siteId) : null,
+      site: siteId ? findSite(deps.db, siteId) : null,
       on: date,
       coverage,
       priorClaims,
