@@ -7,6 +7,7 @@ import { catalogRouter } from './modules/catalog/catalog.router';
 import { homeRouter } from './modules/home/home.router';
 import { devRouter } from './modules/dev/dev.router';
 import { attachmentsRouter } from './modules/attachments/attachments.router';
+import { evidenceChangesRouter } from './modules/attachments/evidence-changes.router';
 import { readingsRouter } from './modules/readings/readings.router';
 import { agencyRouter, postalCodesRouter } from './modules/agency/agency.router';
 import { invitationsRouter } from './modules/invitations/invitations.router';
@@ -23,6 +24,7 @@ export function mountApi(api: Router, deps: AppDeps): void {
   api.use('/auth', authRouter(deps, { limits: deps.authLimits }));
   api.use('/claims', claimsRouter(deps));
   api.use(attachmentsRouter(deps));
+  api.use(evidenceChangesRouter(deps));
   api.use(readingsRouter(deps));
   api.use('/units', unitsRouter(deps));
   api.use('/catalog', catalogRouter(deps));

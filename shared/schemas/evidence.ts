@@ -26,6 +26,9 @@ export interface AttachmentView {
   uploadedBy: string;
   uploadedByName: string | null;
   createdAt: string;
+  /** Set when the agency retracted the file after filing; the file stays, with the agency's reason. */
+  retractedAt?: string | null;
+  retractionReason?: string | null;
 }
 
 export type EvidenceFlagCode = 'photo_reused' | 'photo_reused_other_agency' | 'photo_outside_service_window' | 'photo_far_from_site' | 'readings_out_of_tolerance';

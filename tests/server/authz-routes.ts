@@ -662,6 +662,27 @@ export const routes: RouteCase[] = [
     expect: x(401, OK, OK, 404, OK, 404, 404),
   },
   {
+    method: 'PATCH',
+    route: '/api/attachments/:id',
+    ids: { id: 'attachment' },
+    build: async ({ f }) => ({ params: { id: (await freshAttachment(f, false)).id }, body: { role: 'failed_part' } }),
+    expect: x(401, OK, OK, 404, 404, 404, 404),
+  },
+  {
+    method: 'DELETE',
+    route: '/api/attachments/:id',
+    ids: { id: 'attachment' },
+    build: async ({ f }) => ({ params: { id: (await freshAttachment(f, false)).id } }),
+    expect: x(401, OK, OK, 404, 404, 404, 404),
+  },
+  {
+    method: 'POST',
+    route: '/api/attachments/:id/retraction',
+    ids: { id: 'attachment' },
+    build: async ({ f }) => ({ params: { id: (await freshAttachment(f, true)).id }, body: { reason: 'Photo of another unit on the site.' } }),
+    expect: x(401, OK, OK, 404, 403, 404, 404),
+  },
+  {
     method: 'GET',
     route: '/api/attachments/:id/preview',
     ids: { id: 'attachment' },
@@ -890,6 +911,23 @@ export const routes: RouteCase[] = [
   // A write from a foreign Origin is refused before authentication (nothing ends, nothing is written).
   { method: 'POST', route: '/api/auth/sign-out', name: 'foreign Origin', headers: { Origin: 'https://attacker.example' }, build: () => ({}), expect: x(403, 403, 403, 403, 403, 403, 403) },
 ];
+
+/** A photo on a fresh draft of technician A, the draft submitted when asked. */
+async function freshAttachment(f: Fixtures, submit: boolean): Promise<{ id: string; claimId: string }> {
+  const d = await f.fresh.draft();
+  const tech = await f.freshAgent('techA');
+  const up = await tech
+    .post(`/api/claims/${d.id}/attachments`)
+    .set('Origin', ORIGIN)
+    .field('role', 'unit_overall')
+    .attach('files', await f.fresh.png(), { filename: 'unit.png', contentType: 'image/png' });
+  if (up.status !== 201) throw new Error(`fixture upload: ${up.status}`);
+  if (submit) {
+    const s = await tech.post(`/api/claims/${d.id}/transitions`).set('Origin', ORIGIN).send({ type: 'submit', version: f.version(d.id) });
+    if (s.status !== 200) throw new Error(`fixture submit: ${s.status} ${JSON.stringify(s.body)}`);
+  }
+  return { id: (up.body.attachments as { id: string }[])[0]!.id, claimId: d.id };
+}
 
 /** /api/admin: the manufacturer admin's alone; every other signed-in principal gets 403. */
 function adminRoutes(): RouteCase[] {

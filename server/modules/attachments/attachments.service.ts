@@ -85,6 +85,8 @@ export function toView(a: Attachment & { uploadedByName?: string | null }): Atta
     uploadedBy: a.uploadedBy,
     uploadedByName: a.uploadedByName ?? null,
     createdAt: a.createdAt,
+    retractedAt: a.retractedAt,
+    retractionReason: a.retractionReason,
   };
 }
 

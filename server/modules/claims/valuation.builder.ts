@@ -148,7 +148,8 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
     .all()
     .map((r) => ({ ...r, spec: specByKey.get(r.key) ?? null }));
 
-  const attachmentRoles = db.select({ role: attachments.role }).from(attachments).where(eq(attachments.claimId, claim.id)).all().map((a) => a.role);
+  // retracted evidence no longer counts towards the roles the repair codes require
+  const attachmentRoles = db.select({ role: attachments.role }).from(attachments).where(and(eq(attachments.claimId, claim.id), isNull(attachments.retractedAt))).all().map((a) => a.role);
 
   const tech = db.select({ id: users.id, name: users.name }).from(users).where(eq(users.id, claim.technicianId)).get();
   const certs = db

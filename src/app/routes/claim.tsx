@@ -191,7 +191,7 @@ export function ClaimRoute() {
           <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />
           <ValuationSection claimId={c.id} />
           <ReadingsPanel claimId={c.id} />
-          <EvidencePanel claimId={c.id} editable={false} />
+          <EvidencePanel claimId={c.id} editable={false} retractable={(c.state === 'submitted' || c.state === 'in_review') && ability.can('upload', subject('Claim', { ...c, state: 'draft' }))} />
         </div>
         <div className="space-y-5">
           <ClaimUnitCard claim={c} />

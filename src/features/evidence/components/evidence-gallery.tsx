@@ -1,3 +1,5 @@
+import { cx } from '@/lib/cx';
+import { EvidenceItemActions, type EvidenceManage } from './evidence-item-actions';
 import { useEffect, useRef, useState } from 'react';
 import { attachmentRoleLabels } from '@shared/schemas/claim';
 import type { AttachmentView, EvidenceFlagView } from '@shared/schemas/evidence';
@@ -71,7 +73,7 @@ function Lightbox({ attachment, flags, onClose }: { attachment: AttachmentView; 
 }
 
 /** Thumbnails of the claim's evidence; one opens the full image with its metadata and checks. */
-export function EvidenceGallery({ attachments, flags }: { attachments: AttachmentView[]; flags: EvidenceFlagView[] }) {
+export function EvidenceGallery({ attachments, flags, claimId, manage }: { attachments: AttachmentView[]; flags: EvidenceFlagView[]; claimId?: string; manage?: EvidenceManage | null }) {
   const [openId, setOpenId] = useState<string | null>(null);
   const open = attachments.find((a) => a.id === openId) ?? null;
   if (attachments.length === 0) return <p className="text-sm text-ink-600">No photos or documents attached yet.</p>;
@@ -81,12 +83,17 @@ export function EvidenceGallery({ attachments, flags }: { attachments: Attachmen
         {attachments.map((a) => {
           const mine = flags.filter((f) => f.attachmentId === a.id);
           return (
-            <li key={a.id} className="overflow-hidden rounded-md border border-ink-100 bg-white">
+            <li key={a.id} className={cx('overflow-hidden rounded-md border border-ink-100 bg-white', a.retractedAt && 'opacity-70')}>
               <button type="button" onClick={() => setOpenId(a.id)} className="block w-full text-left focus-visible:outline-2 focus-visible:outline-ink-600" aria-label={`Open ${attachmentRoleLabels[a.role]}: ${a.originalName}`}>
                 <img src={a.thumbnailUrl} alt="" loading="lazy" className="aspect-[4/3] w-full bg-ink-50 object-cover" />
                 <span className="block space-y-0.5 p-2">
                   <span className="block text-sm font-medium text-ink-900">{attachmentRoleLabels[a.role]}</span>
                   <span className="block truncate text-xs text-ink-600">{a.originalName}</span>
+                  {a.retractedAt && (
+                    <span className="block text-xs text-red-800">
+                      <span className="font-semibold">Retracted by the agency:</span> {a.retractionReason}
+                    </span>
+                  )}
                   {mine.length > 0 && (
                     <span className="flex flex-wrap gap-1">
                       {[...new Set(mine.map((f) => f.code))].map((c) => (
@@ -98,6 +105,7 @@ export function EvidenceGallery({ attachments, flags }: { attachments: Attachmen
                   )}
                 </span>
               </button>
+              {manage && claimId && <EvidenceItemActions claimId={claimId} attachment={a} manage={manage} />}
             </li>
           );
         })}

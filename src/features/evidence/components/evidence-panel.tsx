@@ -13,7 +13,22 @@ import { EvidenceUploader } from './evidence-uploader';
  * The claim's evidence: the gallery and the checks for everyone who may read the claim, and the
  * uploader while the claim is editable. `bare` drops the card, for use inside a form section.
  */
-export function EvidencePanel({ claimId, editable, gas = false, bare = false, onImported }: { claimId: string; editable: boolean; gas?: boolean; bare?: boolean; onImported?: () => void }) {
+export function EvidencePanel({
+  claimId,
+  editable,
+  retractable = false,
+  gas = false,
+  bare = false,
+  onImported,
+}: {
+  claimId: string;
+  editable: boolean;
+  /** The claim is filed and this user is of its agency: files may be retracted with a reason. */
+  retractable?: boolean;
+  gas?: boolean;
+  bare?: boolean;
+  onImported?: () => void;
+}) {
   const evidence = useClaimEvidence(claimId);
   const body = (
     <div className="space-y-4">
@@ -30,7 +45,7 @@ export function EvidencePanel({ claimId, editable, gas = false, bare = false, on
       ) : (
         <>
           <EvidenceFlags flags={evidence.data.flags} />
-          <EvidenceGallery attachments={evidence.data.attachments} flags={evidence.data.flags} />
+          <EvidenceGallery attachments={evidence.data.attachments} flags={evidence.data.flags} claimId={claimId} manage={editable ? 'edit' : retractable ? 'retract' : null} />
         </>
       )}
     </div>
