@@ -23,6 +23,7 @@ const photo: AttachmentView = {
   hasThumbnail: true,
   url: '/api/attachments/a1',
   thumbnailUrl: '/api/attachments/a1/thumbnail',
+  previewUrl: '/api/attachments/a1/preview',
   uploadedBy: 'u1',
   uploadedByName: 'A technician',
   createdAt: '2026-03-12T10:00:00.000Z',
