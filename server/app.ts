@@ -1,4 +1,5 @@
 import express, { type Express, type RequestHandler } from 'express';
+import { installMessages } from '@shared/schemas/messages';
 import cookieParser from 'cookie-parser';
 import type { Db } from './db/client';
 import { modeOf, type Env } from './env';
@@ -34,6 +35,8 @@ export interface App {
 }
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
+installMessages();
+
 export function createApp(opts: CreateAppOptions): App {
   const clock = opts.clock ?? systemClock;
   const deps: AppDeps = {

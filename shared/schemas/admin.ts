@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { rangeOrder } from './messages';
 import { roles, type Role } from '../permissions/ability';
 import { emailSchema, newPasswordSchema } from './user';
 import { attachmentRoles, type AttachmentRole } from './claim';
@@ -10,7 +11,7 @@ import { oneLine, optionalOneLine } from './text';
  * basis points (1 % = 100 bps); dates are YYYY-MM-DD.
  */
 
-const isoDate = z.iso.date('Use a date like 2026-03-31.');
+const isoDate = z.iso.date('Use a date as YYYY-MM-DD, like 2026-03-31.');
 /** One line of text, NFC, trimmed, without control, text-direction or invisible characters (shared/schemas/text.ts). */
 const required = (max: number, message: string, label: string, min = 1) => oneLine({ max, min, label, required: message });
 /** A text field that may be left blank: '' is stored as null. */
@@ -115,7 +116,7 @@ const certificationFields = {
 };
 
 const validToAfterFrom = (v: { validFrom?: string; validTo?: string }) => !v.validFrom || !v.validTo || v.validTo >= v.validFrom;
-const validToMessage = { message: 'The end of validity cannot be before its start.', path: ['validTo'] };
+const validToMessage = rangeOrder('validFrom', 'validTo', 'start of validity', 'end of validity');
 
 export const createCertificationSchema = z.strictObject(certificationFields).refine(validToAfterFrom, validToMessage);
 export type CreateCertificationBody = z.infer<typeof createCertificationSchema>;
@@ -491,7 +492,7 @@ const termsFields = {
   filingWindowDays: z.number('Enter days.').int('Whole days only.').min(1, 'At least 1 day.').max(730, 'At most 730 days.'),
 };
 const toAfterFrom = (v: { effectiveFrom?: string; effectiveTo?: string | null }) => !v.effectiveFrom || !v.effectiveTo || v.effectiveTo >= v.effectiveFrom;
-const toAfterFromMessage = { message: 'The end date cannot be before the start date.', path: ['effectiveTo'] };
+const toAfterFromMessage = rangeOrder('effectiveFrom', 'effectiveTo', 'start date', 'end date');
 
 export const createTermsSchema = z
   .strictObject({

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { ValuationInput } from '../calculations/valuation';
 import { FLAG_CODES } from '../calculations/flags';
+import { implausibleReading, parseDecimalInput } from '../calculations/number-input';
 import { multiLine, oneLine } from './text';
 
 export const claimStates = ['draft', 'submitted', 'in_review', 'returned', 'approved', 'denied', 'paid', 'withdrawn'] as const;
@@ -29,34 +30,52 @@ export const attachmentRoleLabels: Record<AttachmentRole, string> = {
   other: 'Other',
 };
 
-const isoDate = z.iso.date('Use a date like 2026-03-31.');
+const isoDate = z.iso.date('Use a date as YYYY-MM-DD, like 2026-03-31.');
 /** Human-entered text: NFC, trimmed, no control, text-direction or invisible characters (./text.ts). */
 const line = (max: number, label: string) => oneLine({ max, min: 0, label });
 const prose = (max: number, label: string) => multiLine({ max, min: 0, label });
 
+/**
+ * A number as JSON; a string (what a form would send if it did not parse) is refused with the
+ * strict parser's message ("1,5", "35O", "1e6", "12..5" all say what is wrong).
+ */
+const typedNumber = (message: string) =>
+  z.number({
+    error: (iss) => {
+      if (typeof iss.input !== 'string') return message;
+      const p = parseDecimalInput(iss.input);
+      return p.ok ? message : p.message;
+    },
+  });
+
 export const laborLineInputSchema = z.strictObject({
   repairCodeId: z.string().min(1, 'Choose a repair code.'),
-  hoursWorked: z.number('Enter hours as a number.').min(0.1, 'At least 0.1 hour.').max(24, 'At most 24 hours on one line.'),
+  hoursWorked: typedNumber('Enter hours as a number.').min(0.1, 'At least 0.1 hour.').max(24, 'At most 24 hours on one line.'),
   overtime: z.boolean().default(false),
   note: line(500, 'The note').default(''),
 });
 
 export const travelInputSchema = z.strictObject({
-  roundTripMiles: z.number('Enter miles as a number.').min(0).max(2000, 'At most 2,000 miles.'),
-  travelHours: z.number('Enter hours as a number.').min(0).max(48, 'At most 48 hours.'),
+  roundTripMiles: typedNumber('Enter miles as a number.').min(0, 'Miles cannot be negative.').max(2000, 'At most 2,000 miles.'),
+  travelHours: typedNumber('Enter hours as a number.').min(0, 'Hours cannot be negative.').max(48, 'At most 48 hours.'),
 });
 
 export const partLineInputSchema = z.strictObject({
   partId: z.string().min(1, 'Choose a part.'),
-  quantity: z.number().int('Whole parts only.').min(1, 'At least 1.').max(99, 'At most 99.'),
+  quantity: typedNumber('Enter the quantity as a whole number.').int('Whole parts only.').min(1, 'At least 1.').max(99, 'At most 99.'),
 });
 
-export const readingInputSchema = z.strictObject({
-  key: z.string().min(1).max(60),
-  phase: z.enum(['before', 'after']),
-  value: z.number('Enter the reading as a number.').finite(),
-  unit: z.enum(['F', 'C', 'in', 'mm', 'A', 'V']),
-});
+export const readingInputSchema = z
+  .strictObject({
+    key: z.string().min(1).max(60),
+    phase: z.enum(['before', 'after']),
+    value: typedNumber('Enter the reading as a number.').finite(),
+    unit: z.enum(['F', 'C', 'in', 'mm', 'A', 'V']),
+  })
+  .superRefine((r, ctx) => {
+    const problem = implausibleReading(r.value, r.unit);
+    if (problem) ctx.addIssue({ code: 'custom', path: ['value'], message: problem });
+  });
 
 /** The fields an agency user may write on a draft or returned claim; nothing else is accepted. */
 export const claimDraftSchema = z.strictObject({

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { rangeOrder } from './messages';
 import { multiLine, oneLine } from './text';
 import { businessDay } from '../calculations/business-day';
 import { addDays } from '../calculations/dates';
@@ -8,7 +9,7 @@ import { addDays } from '../calculations/dates';
  * calendar dates are YYYY-MM-DD; timestamps are UTC ISO strings.
  */
 
-const isoDate = z.iso.date('Use a date like 2026-03-31.');
+const isoDate = z.iso.date('Use a date as YYYY-MM-DD, like 2026-03-31.');
 const id = z.string().trim().min(1, 'Required.').max(64, 'Not a valid id.');
 /** One line of plain text: NFC, trimmed, no control, text-direction or invisible characters (./text.ts). */
 const line = (label: string, max: number) => oneLine({ max, label: `The ${label}`, required: `Enter the ${label}.` });
@@ -224,7 +225,7 @@ export const paidClaimsExportQuerySchema = z
     to: isoDate.optional(),
     agency: id.optional(),
   })
-  .refine((q) => !q.from || !q.to || q.from <= q.to, { message: 'The start date must not be after the end date.', path: ['to'] });
+  .refine((q) => !q.from || !q.to || q.from <= q.to, rangeOrder('from', 'to', 'start date', 'end date'));
 export type PaidClaimsExportQuery = z.infer<typeof paidClaimsExportQuerySchema>;
 
 /** The export's columns, in order: the header row's names and what each holds. */

@@ -4,7 +4,7 @@ import type { ClaimListItem } from './claim';
 
 /** GET /api/units/:serial?on=YYYY-MM-DD */
 export const unitLookupQuerySchema = z.object({
-  on: z.iso.date('Use a date like 2026-03-31.').optional(),
+  on: z.iso.date('Use a date as YYYY-MM-DD, like 2026-03-31.').optional(),
 });
 
 export interface UnitLookup {

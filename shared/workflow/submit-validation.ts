@@ -91,7 +91,7 @@ export function validateForSubmit(facts: SubmitFacts): SubmitValidation {
     else good[key] = v as string;
   }
   if (good.failureDate && good.repairDate && good.repairDate < good.failureDate) {
-    add('repairDate', 'repair_before_failure', 'The repair date cannot be before the failure date.');
+    add('repairDate', 'repair_before_failure', `The repair date (${good.repairDate}) cannot be before the failure date (${good.failureDate}).`);
   }
   if (facts.shipDate) {
     for (const [key, words] of dates) {

@@ -8,6 +8,7 @@ import { writeAudit } from '../../lib/audit';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
 import { todayFor } from '../../lib/business-day';
+import { reversedRangeMessage } from '@shared/schemas/messages';
 import { addDays } from '@shared/calculations/dates';
 import type { AgencyDetail, AgencyListItem, ContractTermsItem, UpdateAgencyBody, UpdateTermsBody } from '@shared/schemas/admin';
 import { createAgencySchema, createTermsSchema } from '@shared/schemas/admin';
@@ -159,7 +160,7 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
         if (!row) throw new NotFoundError('No such contract terms.');
         const next = { ...row, ...Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined)) } as AgencyTerms;
         if (next.effectiveTo !== null && next.effectiveTo < next.effectiveFrom) {
-          throw new AppError(400, 'validation_failed', 'Some fields need attention.', { effectiveTo: 'The end date cannot be before the start date.' });
+          throw new AppError(400, 'validation_failed', 'Some fields need attention.', { effectiveTo: reversedRangeMessage('end date', next.effectiveTo, 'start date', next.effectiveFrom) });
         }
         const other = overlappingTerms(t, agencyId, next.effectiveFrom, next.effectiveTo, termsId);
         if (other) throw overlapError(other);

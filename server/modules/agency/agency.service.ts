@@ -8,6 +8,7 @@ import { writeAudit } from '../../lib/audit';
 import { ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
 import { todayFor } from '../../lib/business-day';
+import { reversedRangeMessage } from '@shared/schemas/messages';
 import type {
   AgencyProfile,
   CertificationItem,
@@ -106,7 +107,7 @@ export function createAgencyService(deps: AppDeps) {
           validTo: body.validTo ?? row.validTo,
           attachmentId: body.attachmentId !== undefined ? body.attachmentId : row.attachmentId,
         };
-        if (next.validTo < next.validFrom) throw new ValidationError('Some fields need attention.', { validTo: 'The end of validity cannot be before its start.' });
+        if (next.validTo < next.validFrom) throw new ValidationError('Some fields need attention.', { validTo: reversedRangeMessage('end of validity', next.validTo, 'start of validity', next.validFrom) });
         if (body.familyId) checkFamily(t, body.familyId);
         if (body.attachmentId) checkAttachment(t, row.organisationId, body.attachmentId);
         t.update(certifications).set(next).where(eq(certifications.id, id)).run();

@@ -1,3 +1,4 @@
+import { implausibleReading } from '@shared/calculations/number-input';
 import { parse } from 'csv-parse/sync';
 import { areCompatible, isUnitCode, unitLabel } from '@shared/calculations/units';
 import type { ReadingSpec } from '../../db/schema/index';
@@ -79,6 +80,8 @@ export function parseReadingsCsv(text: string, specs: ReadingSpec[], modelNumber
     if (!NUMBER.test(valueRaw)) problems.push(`the value "${valueRaw.slice(0, 30)}" is not a number`);
     else value = Number(valueRaw);
     const unit = normaliseUnit(unitRaw);
+    const implausible = unit && Number.isFinite(value) ? implausibleReading(value, unit) : null;
+    if (implausible) problems.push(implausible.replace(/^A/, 'a').replace(/\.$/, ''));
     if (!unit) problems.push(`the unit "${unitRaw.slice(0, 20)}" is not one of F, C, in, mm, A, V`);
     else if (spec && !areCompatible(unit, spec.unit)) {
       problems.push(`the unit ${isUnitCode(unit) ? unitLabel(unit) : unit} cannot be converted to ${isUnitCode(spec.unit) ? unitLabel(spec.unit) : spec.unit} for ${spec.label}`);

@@ -2,6 +2,7 @@ import { useFieldArray, useWatch, type UseFormReturn } from 'react-hook-form';
 import type { CatalogRepairCode } from '@shared/schemas/catalog';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
+import { typedNumberValue } from '@/lib/number-input';
 import { formatHours } from '@/lib/format';
 import { fieldDomId, type ClaimFormValues } from '../form-model';
 import { FormField, GroupError } from './form-field';
@@ -74,7 +75,7 @@ export function LaborSection({
                   hint={code ? `Guide allows ${formatHours(code.allowedHours)}` : undefined}
                   error={e?.hoursWorked?.message}
                 >
-                  {(p) => <Input {...p} type="number" inputMode="decimal" step="0.05" min="0.1" max="24" {...register(`laborLines.${i}.hoursWorked`, { valueAsNumber: true })} />}
+                  {(p) => <Input {...p} type="text" inputMode="decimal" autoComplete="off" {...register(`laborLines.${i}.hoursWorked`, { setValueAs: typedNumberValue })} />}
                 </FormField>
               </div>
               {over > 0 && (

@@ -4,6 +4,7 @@ import type { CatalogModel, CatalogPart } from '@shared/schemas/catalog';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Input } from '@/components/ui/input';
+import { typedNumberValue } from '@/lib/number-input';
 import { formatCents } from '@/lib/format';
 import { fieldDomId, type ClaimFormValues } from '../form-model';
 import { FormField, GroupError } from './form-field';
@@ -104,7 +105,7 @@ export function PartsSection({
                   <GroupError>{e?.partId?.message}</GroupError>
                 </div>
                 <FormField id={fieldDomId(`partLines.${i}.quantity`)} label="Quantity" error={e?.quantity?.message}>
-                  {(p) => <Input {...p} type="number" inputMode="numeric" step="1" min="1" max="99" {...register(`partLines.${i}.quantity`, { valueAsNumber: true })} />}
+                  {(p) => <Input {...p} type="text" inputMode="numeric" autoComplete="off" {...register(`partLines.${i}.quantity`, { setValueAs: typedNumberValue })} />}
                 </FormField>
                 <Button variant="ghost" size="sm" onClick={() => remove(i)}>
                   Remove

@@ -1,4 +1,6 @@
 import { useState } from 'react';
+import { parseTypedNumber } from '@/lib/number-input';
+import { implausibleReading } from '@shared/calculations/number-input';
 import { useWatch, type UseFormReturn } from 'react-hook-form';
 import type { CatalogModel } from '@shared/schemas/catalog';
 import { judgeReading } from '@shared/calculations/readings';
@@ -33,12 +35,17 @@ export function unitsFor(specUnit: string): ReadingUnit[] {
   }
 }
 
-const DECIMAL = /^-?\d*(?:[.,]\d*)?$/;
+/** Partial input while typing ("-", "0.", "1,") that is not yet a number and not yet wrong. */
+const UNFINISHED = /^-?\d*[.,]?$/;
 
 /** One reading: text while typing ("0." stays "0."), a number in the form once it reads as one. */
 function ReadingCell({ spec, phase, reading, unit, required, error, onChange }: { spec: Spec; phase: 'before' | 'after'; reading: Reading | undefined; unit: ReadingUnit; required: boolean; error?: string; onChange: (value: number | null) => void }) {
   const [text, setText] = useState(reading ? String(reading.value) : '');
-  const shownValue = reading && Number(text.replace(',', '.')) !== reading.value ? String(reading.value) : text;
+  const [typo, setTypo] = useState<string | null>(null);
+  const parsed = parseTypedNumber(text);
+  const shownValue = reading && !typo && (!parsed.ok || parsed.value !== reading.value) ? String(reading.value) : text;
+  const plausibility = reading ? implausibleReading(reading.value, reading.unit) : null;
+  const shownError = typo ?? plausibility ?? error;
   const id = fieldDomId(`readings.${spec.key}.${phase}`);
   let verdict = null;
   if (reading) {
@@ -70,23 +77,34 @@ function ReadingCell({ spec, phase, reading, unit, required, error, onChange }: 
           inputMode="decimal"
           autoComplete="off"
           value={shownValue}
-          aria-invalid={error ? true : undefined}
-          aria-describedby={error ? `${id}-error` : undefined}
+          aria-invalid={shownError ? true : undefined}
+          aria-describedby={shownError ? `${id}-error` : undefined}
           onChange={(e) => {
+            // every keystroke is kept; a text that is not a number is said so, never trimmed into one
             const t = e.target.value;
-            if (!DECIMAL.test(t)) return;
             setText(t);
-            const n = Number(t.replace(',', '.'));
-            onChange(t.trim() === '' || t === '-' || !Number.isFinite(n) ? null : n);
+            if (t.trim() === '') {
+              setTypo(null);
+              onChange(null);
+              return;
+            }
+            const p = parseTypedNumber(t);
+            if (p.ok) {
+              setTypo(null);
+              onChange(p.value);
+            } else {
+              setTypo(UNFINISHED.test(t.trim()) ? null : p.message);
+              onChange(null);
+            }
           }}
           className="max-w-32"
         />
         <span className="text-sm text-ink-700">{unitLabel(unit)}</span>
       </div>
       {verdict}
-      {error && (
+      {shownError && (
         <p id={`${id}-error`} className="text-xs font-medium text-red-800">
-          {error}
+          {shownError}
         </p>
       )}
     </div>

@@ -1,6 +1,7 @@
 import { useWatch, type UseFormReturn } from 'react-hook-form';
 import { haversineKm, KM_PER_MILE, type LatLon } from '@shared/calculations/travel';
 import { Input } from '@/components/ui/input';
+import { typedNumberValue } from '@/lib/number-input';
 import { fieldDomId, type ClaimFormValues } from '../form-model';
 import { FormField, GroupError } from './form-field';
 import { FormSection } from './form-section';
@@ -46,10 +47,10 @@ export function TravelSection({
             hint={straightMiles !== null ? `The straight-line round trip from your base is ${straightMiles.toFixed(1)} miles; roads run longer.` : 'From your base to the site and back.'}
             error={e?.roundTripMiles?.message}
           >
-            {(p) => <Input {...p} type="number" inputMode="decimal" step="0.1" min="0" max="2000" {...register('travel.roundTripMiles', { valueAsNumber: true })} />}
+            {(p) => <Input {...p} type="text" inputMode="decimal" autoComplete="off" {...register('travel.roundTripMiles', { setValueAs: typedNumberValue })} />}
           </FormField>
           <FormField id={fieldDomId('travel.travelHours')} label="Travel time (hours)" hint="Both ways together." error={e?.travelHours?.message}>
-            {(p) => <Input {...p} type="number" inputMode="decimal" step="0.05" min="0" max="48" {...register('travel.travelHours', { valueAsNumber: true })} />}
+            {(p) => <Input {...p} type="text" inputMode="decimal" autoComplete="off" {...register('travel.travelHours', { setValueAs: typedNumberValue })} />}
           </FormField>
         </div>
       )}
