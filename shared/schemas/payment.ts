@@ -239,10 +239,10 @@ export const paidClaimsExportColumns = [
   { key: 'payment_run', description: 'Payment run number, e.g. PR-2026-0007' },
   { key: 'payment_date', description: 'Date paid, YYYY-MM-DD (the run’s payment date)' },
   { key: 'payment_reference', description: 'Bank transfer or check reference of the run' },
-  { key: 'labor', description: 'Approved labor, decimal with 2 places' },
-  { key: 'travel', description: 'Approved travel, decimal with 2 places' },
-  { key: 'parts', description: 'Approved parts, decimal with 2 places' },
-  { key: 'total_approved', description: 'Approved total paid for the claim, decimal with 2 places' },
+  { key: 'approved_labor', description: 'Approved labor, decimal with 2 places' },
+  { key: 'approved_travel', description: 'Approved travel, decimal with 2 places' },
+  { key: 'approved_parts', description: 'Approved parts, decimal with 2 places' },
+  { key: 'approved_total', description: 'Approved total paid for the claim, decimal with 2 places' },
   { key: 'currency', description: 'ISO 4217 currency code' },
 ] as const;
 export type PaidClaimsExportColumn = (typeof paidClaimsExportColumns)[number]['key'];

@@ -45,7 +45,7 @@ const BASELINE_SQL = `
    where c.state = 'paid' and r.state = 'paid'
    order by r.payment_date, r.number, c.number`;
 
-const HEADER = ['claim_number', 'agency', 'technician', 'unit_serial', 'model', 'repair_date', 'payment_run', 'payment_date', 'payment_reference', 'labor', 'travel', 'parts', 'total_approved', 'currency'];
+const HEADER = ['claim_number', 'agency', 'technician', 'unit_serial', 'model', 'repair_date', 'payment_run', 'payment_date', 'payment_reference', 'approved_labor', 'approved_travel', 'approved_parts', 'approved_total', 'currency'];
 
 // ---- the baseline server (only when forked for it) -----------------------------------------
 

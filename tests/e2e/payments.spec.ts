@@ -71,7 +71,7 @@ test('the accountant creates a payment run, marks it paid, downloads the CSV; th
     expect(r.payment_reference).toBe(REFERENCE);
     expect(r.payment_date).toBe('2026-06-15');
     expect(r.agency).toBe(AGENCY);
-    expect(r.total_approved).toMatch(/^\d+\.\d{2}$/);
+    expect(r.approved_total).toMatch(/^\d+\.\d{2}$/);
   }
   await signOut(page);
 

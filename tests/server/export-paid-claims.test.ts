@@ -11,7 +11,7 @@ const agents = {} as Record<DemoKey, Agent>;
 let harborview: string;
 let prairie: string;
 
-const HEADER = ['claim_number', 'agency', 'technician', 'unit_serial', 'model', 'repair_date', 'payment_run', 'payment_date', 'payment_reference', 'labor', 'travel', 'parts', 'total_approved', 'currency'];
+const HEADER = ['claim_number', 'agency', 'technician', 'unit_serial', 'model', 'repair_date', 'payment_run', 'payment_date', 'payment_reference', 'approved_labor', 'approved_travel', 'approved_parts', 'approved_total', 'currency'];
 
 /**
  * Cells a spreadsheet would run as formulas. OWASP "CSV Injection": a cell beginning with

@@ -53,11 +53,11 @@ describe('remittance mail', () => {
     const file = mail.attachments[0];
     expect(file.filename).toBe(`remittance-${run.body.number}.csv`);
     expect(file.contentType).toBe('text/csv');
-    expect(file.content.split('\r\n')[0]).toBe('claim_number,agency,technician,unit_serial,model,repair_date,payment_run,payment_date,payment_reference,labor,travel,parts,total_approved,currency');
+    expect(file.content.split('\r\n')[0]).toBe('claim_number,agency,technician,unit_serial,model,repair_date,payment_run,payment_date,payment_reference,approved_labor,approved_travel,approved_parts,approved_total,currency');
     const rows = parse(file.content, { columns: true, record_delimiter: ['\r\n'] }) as Record<string, string>[];
     expect(rows.map((r) => r.claim_number).sort()).toEqual([a.number, b.number].sort());
     const ra = rows.find((r) => r.claim_number === a.number)!;
-    expect([ra.labor, ra.travel, ra.parts, ra.total_approved, ra.payment_run, ra.payment_date, ra.payment_reference, ra.agency]).toEqual([
+    expect([ra.approved_labor, ra.approved_travel, ra.approved_parts, ra.approved_total, ra.payment_run, ra.payment_date, ra.payment_reference, ra.agency]).toEqual([
       '125.00',
       '30.00',
       '71.25',

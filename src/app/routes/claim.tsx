@@ -75,7 +75,7 @@ function ClaimHeading({ claim }: { claim: ClaimDetail }) {
       </div>
       <dl className="flex gap-6 text-right">
         <div>
-          <dt className="text-xs uppercase tracking-wide text-ink-600">Claimed</dt>
+          <dt className="text-xs uppercase tracking-wide text-ink-600">Allowed</dt>
           <dd className="text-xl font-semibold tabular-nums">{formatCents(claim.claimedTotalCents, claim.currency)}</dd>
         </div>
         <div>

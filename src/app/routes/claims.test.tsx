@@ -94,10 +94,10 @@ describe('claim list', () => {
     renderClaims();
     const user = userEvent.setup();
     const table = await screen.findByRole('table');
-    await user.click(within(table).getByRole('button', { name: /Claimed/ }));
+    await user.click(within(table).getByRole('button', { name: /Allowed/ }));
     await waitFor(() => expect(claimCalls().at(-1)!.url.searchParams.get('sort')).toBe('claimedTotalCents'));
     expect(claimCalls().at(-1)!.url.searchParams.get('dir')).toBe('desc');
-    await waitFor(() => expect(within(screen.getByRole('table')).getByRole('columnheader', { name: /Claimed/ })).toHaveAttribute('aria-sort', 'descending'));
+    await waitFor(() => expect(within(screen.getByRole('table')).getByRole('columnheader', { name: /Allowed/ })).toHaveAttribute('aria-sort', 'descending'));
   });
 
   it('filters by state and lists the agencies seen for a manufacturer user', async () => {

@@ -33,7 +33,7 @@ function Section({ title, children }: { title: string; children: ReactNode }) {
 }
 
 /**
- * Labor, travel and parts as filed, with the amount claimed by the rules (from the
+ * Labor, travel and parts as filed, with the amount the agency entered (from the
  * valuation, when it could be computed) and the amount approved by the reviewer.
  */
 export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation?: Valuation | null }) {
@@ -49,7 +49,7 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
       <CardHeader
         id="claim-lines"
         title="Labor, travel and parts"
-        description={empty ? undefined : valuation ? 'Claimed is what the agency entered; approved is what the reviewer decided.' : 'Per-line claimed amounts appear once the valuation is available.'}
+        description={empty ? undefined : valuation ? 'Entered is what the agency entered; approved is what the reviewer decided. Allowed (in the valuation below) is what the rules allow.' : 'Per-line entered amounts appear once the valuation is available.'}
       />
       <div className="space-y-5 py-3">
         {empty && <CardBody className="text-sm text-ink-600">No lines entered yet.</CardBody>}
@@ -60,9 +60,9 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
                 <Tr>
                   <Th>Repair code</Th>
                   <Th className="text-right">Worked</Th>
-                  <Th className="text-right">Allowed</Th>
+                  <Th className="text-right">Allowance (h)</Th>
                   <Th className="text-right">Approved hours</Th>
-                  <Th className="text-right">Claimed</Th>
+                  <Th className="text-right">Entered</Th>
                   <Th className="text-right">Approved</Th>
                 </Tr>
               </THead>
@@ -101,7 +101,7 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
                 <Tr>
                   <Th>Round trip</Th>
                   <Th className="text-right">Travel time</Th>
-                  <Th className="text-right">Claimed</Th>
+                  <Th className="text-right">Entered</Th>
                   <Th className="text-right">Approved</Th>
                 </Tr>
               </THead>
@@ -132,7 +132,7 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
                   <Th className="text-right">Qty</Th>
                   <Th className="text-right">List price</Th>
                   <Th>Return</Th>
-                  <Th className="text-right">Claimed</Th>
+                  <Th className="text-right">Entered</Th>
                   <Th className="text-right">Approved</Th>
                 </Tr>
               </THead>
@@ -174,7 +174,7 @@ export function ClaimLines({ claim, valuation }: { claim: ClaimDetail; valuation
         )}
         <dl className="mx-4 flex flex-wrap justify-end gap-x-8 gap-y-1 border-t border-ink-100 pt-3 text-sm">
           <div className="flex gap-2">
-            <dt className="text-ink-600">Claimed total</dt>
+            <dt className="text-ink-600">Allowed total</dt>
             <dd className="font-semibold tabular-nums">{formatCents(claim.claimedTotalCents, cur)}</dd>
           </div>
           <div className="flex gap-2">

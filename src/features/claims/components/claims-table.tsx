@@ -75,7 +75,7 @@ export function ClaimsTable({ items, sort, dir, onSort, showAgency }: ClaimsTabl
       column.accessor('submittedAt', { id: 'submittedAt', header: 'Submitted', enableSorting: true, cell: (c) => formatDate(c.getValue()?.slice(0, 10)) }),
       column.accessor('claimedTotalCents', {
         id: 'claimedTotalCents',
-        header: 'Claimed',
+        header: 'Allowed',
         enableSorting: true,
         meta: { numeric: true },
         cell: (c) => formatCents(c.getValue(), c.row.original.currency),

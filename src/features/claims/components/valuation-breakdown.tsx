@@ -88,11 +88,11 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
                           entered <s>{formatCents(l.requestedCents, cur)}</s> ·{' '}
                         </span>
                       )}
-                      <span className="text-ink-600">by the rules</span> {formatCents(l.claimedCents, cur)}
+                      <span className="text-ink-600">allowed</span> {formatCents(l.claimedCents, cur)}
                       {l.adjustment && (
                         <>
                           {' '}
-                          <span className="text-ink-600">· after review</span> {formatCents(l.approvedCents, cur)}
+                          <span className="text-ink-600">· approved</span> {formatCents(l.approvedCents, cur)}
                         </>
                       )}
                     </span>
@@ -139,13 +139,13 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
           </section>
         )}
 
-        <Table caption="Totals as entered, by the rules and after review">
+        <Table caption="Totals entered, allowed and approved">
           <THead>
             <Tr>
               <Th />
-              <Th className="text-right">As entered</Th>
-              <Th className="text-right">By the rules</Th>
-              <Th className="text-right">After review</Th>
+              <Th className="text-right">Entered</Th>
+              <Th className="text-right">Allowed</Th>
+              <Th className="text-right">Approved</Th>
             </Tr>
           </THead>
           <TBody>

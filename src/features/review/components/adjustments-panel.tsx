@@ -246,7 +246,7 @@ export function AdjustmentsPanel({ claim, valuation }: { claim: ClaimDetail; val
                 </div>
                 <div className="text-right text-sm tabular-nums">
                   <p>
-                    <span className="text-ink-600">by the rules</span> {formatCents(l.byRulesCents, cur)}
+                    <span className="text-ink-600">allowed</span> {formatCents(l.byRulesCents, cur)}
                   </p>
                   <p className="font-semibold">
                     <span className="font-normal text-ink-600">approving</span> {formatCents(l.approvedCents, cur)}

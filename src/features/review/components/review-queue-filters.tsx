@@ -94,7 +94,7 @@ export function ReviewQueueFilterBar({
         )}
       </Field>
       <fieldset className="grid grid-cols-2 gap-2">
-        <legend className="mb-1 text-sm font-medium text-ink-800">Claimed amount ($)</legend>
+        <legend className="mb-1 text-sm font-medium text-ink-800">Allowed amount ($)</legend>
         <label className="sr-only" htmlFor="queue-min">
           At least
         </label>

@@ -52,7 +52,7 @@ export function ReviewQueueTable({
             </div>
             <p className="order-3 text-right text-sm tabular-nums sm:order-4">
               <span className="font-semibold">{formatCents(c.claimedTotalCents, c.currency)}</span>
-              <span className="block text-xs text-ink-600">claimed</span>
+              <span className="block text-xs text-ink-600">allowed</span>
             </p>
             <ul className="order-4 col-span-3 flex flex-wrap gap-1 sm:order-3 sm:col-span-1" aria-label="Flags">
               {c.flags.length === 0 ? (
