@@ -1,3 +1,5 @@
+import { businessDay } from '@shared/calculations/business-day';
+import { daysBetween } from '@shared/calculations/dates';
 const moneyFormats = new Map<string, Intl.NumberFormat>();
 
 function moneyFormat(currency: string): Intl.NumberFormat {
@@ -37,12 +39,18 @@ export function formatDateTime(ts: string | null | undefined): string {
   return Number.isNaN(d.getTime()) ? ts : dateTimeFormat.format(d);
 }
 
-/** Whole days from `since` (date or timestamp) to now, never negative. */
-export function ageInDays(since: string | null | undefined, now: Date = new Date()): number | null {
+/**
+ * Whole business days from `since` (date or timestamp) to now, never negative: calendar days in
+ * the organisation's time zone (a claim submitted at 23:30 is one day old after midnight there).
+ */
+export function ageInDays(since: string | null | undefined, now: Date = new Date(), timeZone = 'UTC'): number | null {
   if (!since) return null;
-  const t = new Date(/^\d{4}-\d{2}-\d{2}$/.test(since) ? `${since}T00:00:00Z` : since).getTime();
-  if (Number.isNaN(t)) return null;
-  return Math.max(0, Math.floor((now.getTime() - t) / 86_400_000));
+  try {
+    const from = /^\d{4}-\d{2}-\d{2}$/.test(since) ? since : businessDay(since, timeZone);
+    return Math.max(0, daysBetween(from, businessDay(now, timeZone)));
+  } catch {
+    return null;
+  }
 }
 
 export function plural(n: number, one: string, many = `${one}s`): string {

@@ -3,6 +3,7 @@ import type { HomeCard as HomeCardData } from '@shared/schemas/home';
 import { paths } from '@/config/paths';
 import { cx } from '@/lib/cx';
 import { ageInDays, formatCents } from '@/lib/format';
+import { useOrganisationTimeZone } from '@/lib/business-day';
 
 const toneBar: Record<HomeCardData['tone'], string> = {
   action: 'border-t-brass-400',
@@ -15,6 +16,7 @@ const amountWord: Record<HomeCardData['amount'], string> = { approved: 'Approved
 /** One queue: how many wait, what to do, and the oldest few, each one tap away. */
 export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData; now?: Date; showAgency?: boolean }) {
   const headingId = `home-card-${card.key}`;
+  const timeZone = useOrganisationTimeZone();
   return (
     <section aria-labelledby={headingId} className={cx('flex flex-col rounded-lg border border-t-4 border-ink-100 bg-white shadow-sm', toneBar[card.tone])}>
       <header className="flex items-start justify-between gap-3 px-4 pt-4">
@@ -34,7 +36,7 @@ export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData;
           <h3 className="sr-only">Oldest first</h3>
           <ul className="mt-3 flex-1 divide-y divide-ink-100 border-t border-ink-100">
             {card.items.map((c) => {
-              const age = ageInDays(c.submittedAt ?? c.createdAt, now);
+              const age = ageInDays(c.submittedAt ?? c.createdAt, now, timeZone);
               return (
                 <li key={c.id}>
                   <Link to={paths.claim(c.id)} className="flex items-center justify-between gap-3 px-4 py-2.5 text-sm hover:bg-paper">

@@ -5,9 +5,10 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { paths } from '@/config/paths';
 import { ageInDays, formatCents, formatDate } from '@/lib/format';
+import { useOrganisationTimeZone } from '@/lib/business-day';
 
-function age(c: ClaimListItem, now: Date): string {
-  const d = ageInDays(c.submittedAt, now);
+function age(c: ClaimListItem, now: Date, timeZone: string): string {
+  const d = ageInDays(c.submittedAt, now, timeZone);
   return d === null ? '—' : d === 0 ? 'today' : `${d} day${d === 1 ? '' : 's'}`;
 }
 
@@ -33,6 +34,7 @@ export function ReviewQueueTable({
   startingId: string | null;
   onStart: (c: Row) => void;
 }) {
+  const timeZone = useOrganisationTimeZone();
   return (
     <ol className="divide-y divide-ink-100" aria-label="Claims in the queue, oldest first">
       {items.map((c) => {
@@ -40,7 +42,7 @@ export function ReviewQueueTable({
         return (
           <li key={c.id} className="grid grid-cols-[4.5rem_minmax(0,1fr)_auto] gap-x-3 gap-y-2 px-4 py-3 sm:grid-cols-[6rem_minmax(0,2fr)_minmax(0,1.2fr)_8rem_11rem] sm:items-center">
             <p className="order-1 text-sm">
-              <span className="block text-lg font-semibold tabular-nums text-ink-900 sm:text-2xl">{age(c, now)}</span>
+              <span className="block text-lg font-semibold tabular-nums text-ink-900 sm:text-2xl">{age(c, now, timeZone)}</span>
               <span className="text-xs text-ink-600">since {formatDate(c.submittedAt?.slice(0, 10))}</span>
             </p>
             <div className="order-2 min-w-0 text-sm">
