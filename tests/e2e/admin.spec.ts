@@ -1,4 +1,4 @@
-import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+import { expect, test, type APIRequestContext, type Page } from './fixtures';
 import { lastMailId, linkIn, signIn, signOut, waitForMail } from './fixtures';
 
 // Administration journeys in the browser: an agency admin invites a technician who accepts from

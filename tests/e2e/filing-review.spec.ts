@@ -1,4 +1,4 @@
-import { test, expect, type Page } from '@playwright/test';
+import { test, expect, type Page } from './fixtures';
 import { scenePhoto } from '../fixtures/photos';
 import { signIn, signOut } from './fixtures';
 
@@ -75,7 +75,7 @@ test('a claim is filed, returned with a reason, fixed, resubmitted, adjusted and
   await form.getByLabel('Cause', { exact: true }).fill('Front leveling foot worn; cooking surface out of level.');
   await form.getByLabel('Correction', { exact: true }).fill('Re-leveled the stand and set the cooking height.');
 
-  await expect(form.getByRole('complementary', { name: 'Safety before service' })).toContainText('OSHA 29 CFR 1910.147');
+  await expect(form.getByRole('region', { name: 'Safety before service' })).toContainText('OSHA 29 CFR 1910.147');
   await form.getByRole('button', { name: 'Add a labor line' }).click();
   const line = form.getByRole('listitem', { name: 'Labor line 1' });
   const option = await line.locator('option', { hasText: REPAIR_CODE }).first().getAttribute('value');

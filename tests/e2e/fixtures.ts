@@ -1,4 +1,184 @@
-import { expect, type APIRequestContext, type Page } from '@playwright/test';
+import AxeBuilder from '@axe-core/playwright';
+import { test as base, expect, type APIRequestContext, type Browser, type BrowserContext, type Page } from '@playwright/test';
+
+export { expect };
+export type { APIRequestContext, Page } from '@playwright/test';
+
+/** The narrowest phone width every screen must fit without sideways scrolling. */
+export const PHONE = { width: 390, height: 844 } as const;
+
+/** How wide the document is against its viewport at a 390 px phone width (the viewport is restored afterwards). */
+export async function widthAt390(page: Page): Promise<{ scrollWidth: number; clientWidth: number; widest: string }> {
+  const before = page.viewportSize();
+  await page.setViewportSize(PHONE);
+  try {
+    // two frames, so layout and any resize observers have run at the new width
+    return await page.evaluate(
+      () =>
+        new Promise<{ scrollWidth: number; clientWidth: number; widest: string }>((resolve) =>
+          requestAnimationFrame(() =>
+            requestAnimationFrame(() => {
+              const root = document.documentElement;
+              // name the element that sticks out furthest, so a failure says where to look
+              let widest = '';
+              let right = root.clientWidth;
+              for (const el of Array.from(document.body.querySelectorAll('*'))) {
+                const r = el.getBoundingClientRect().right + window.scrollX;
+                if (r > right + 0.5) {
+                  right = r;
+                  widest = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}${typeof el.className === 'string' && el.className ? `.${el.className.split(/\s+/).slice(0, 3).join('.')}` : ''} (right edge ${Math.round(r)} px)`;
+                }
+              }
+              resolve({ scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest });
+            }),
+          ),
+        ),
+    );
+  } finally {
+    if (before) await page.setViewportSize(before);
+  }
+}
+
+/** Asserts the screen does not scroll sideways at a 390 px phone width. */
+export async function expectNoOverflowAt390(page: Page): Promise<void> {
+  const w = await widthAt390(page);
+  expect(w.scrollWidth, `${page.url()} is ${w.scrollWidth} px wide at 390 px; widest: ${w.widest}`).toBeLessThanOrEqual(w.clientWidth);
+}
+
+/** Every axe-core violation on the page as it is now, one line each (rule, impact, first targets). */
+export async function axeViolations(page: Page): Promise<string[]> {
+  // colours mid-transition (a hover fading out under the pointer) are not the page's colours:
+  // stop transitions while axe measures contrast, then put them back
+  await page.evaluate(() => {
+    const style = document.createElement('style');
+    style.id = 'screen-check-no-motion';
+    style.textContent = '*, *::before, *::after { transition: none !important; animation: none !important; }';
+    document.head.append(style);
+  });
+  let results;
+  try {
+    results = await new AxeBuilder({ page }).analyze();
+  } finally {
+    await page.evaluate(() => document.getElementById('screen-check-no-motion')?.remove()).catch(() => undefined);
+  }
+  return results.violations.map(
+    (v) => `${v.id} (${v.impact ?? 'n/a'}): ${v.help} at ${v.nodes
+      .slice(0, 3)
+      .map((n) => n.target.join(' '))
+      .join(', ')}${v.nodes.length > 3 ? ` and ${v.nodes.length - 3} more` : ''}`,
+  );
+}
+
+/** Asserts axe-core finds no violation on the page as it is now. */
+export async function expectNoAxeViolations(page: Page): Promise<void> {
+  const found = await axeViolations(page);
+  expect(found, `axe-core on ${page.url()}`).toEqual([]);
+}
+
+/** A navigation away or a closed page ends a check without a finding; the next screen gets its own check. */
+function gone(e: unknown): boolean {
+  const m = e instanceof Error ? e.message : String(e);
+  return /Execution context was destroyed|Target page, context or browser has been closed|Target closed|navigation|frame was detached|has been closed/i.test(m);
+}
+
+/**
+ * Watches a page: after every main-frame navigation (loads and in-app route changes alike) the
+ * screen, once settled, is checked with axe-core and for sideways overflow at 390 px. Checks run
+ * one at a time; findings are collected, never thrown into the journey's own steps.
+ */
+class ScreenWatch {
+  private chain: Promise<void> = Promise.resolve();
+  private timers = new Set<ReturnType<typeof setTimeout>>();
+  readonly findings: string[] = [];
+  private checked = 0;
+
+  watch(page: Page): void {
+    page.on('framenavigated', (frame) => {
+      if (frame !== page.mainFrame()) return;
+      if (!/^https?:/.test(frame.url())) return;
+      this.schedule(page);
+    });
+  }
+
+  private seen = new Set<string>();
+
+  private schedule(page: Page): void {
+    // each address once per test (axe takes a second of the page's CPU on a busy machine); the
+    // last state of every page is checked again at the end
+    const key = page.url().split('#')[0]!;
+    if (this.seen.has(key)) return;
+    this.seen.add(key);
+    // let the route render its data before looking; a newer navigation still gets its own check
+    const t = setTimeout(() => {
+      this.timers.delete(t);
+      this.chain = this.chain.then(() => this.check(page));
+    }, 400);
+    this.timers.add(t);
+  }
+
+  private async check(page: Page): Promise<void> {
+    if (page.isClosed()) return;
+    const url = page.url();
+    try {
+      await page.waitForLoadState('load', { timeout: 10_000 });
+      await page.waitForLoadState('networkidle', { timeout: 2_000 }).catch(() => undefined);
+      if (page.isClosed() || page.url() !== url) return;
+      const w = await widthAt390(page);
+      if (w.scrollWidth > w.clientWidth) this.findings.push(`${url}: ${w.scrollWidth} px wide at 390 px (widest: ${w.widest})`);
+      if (page.isClosed() || page.url() !== url) return;
+      for (const v of await axeViolations(page)) this.findings.push(`${url}: axe ${v}`);
+      this.checked += 1;
+    } catch (e) {
+      if (!gone(e)) this.findings.push(`${url}: screen check failed: ${e instanceof Error ? e.message : String(e)}`);
+    }
+  }
+
+  /** Checks the last state of every open page, then waits for every queued check. */
+  async finish(pages: Page[]): Promise<{ findings: string[]; checked: number }> {
+    for (const t of this.timers) clearTimeout(t);
+    this.timers.clear();
+    for (const p of pages) if (!p.isClosed()) this.chain = this.chain.then(() => this.check(p));
+    await this.chain;
+    return { findings: [...new Set(this.findings)], checked: this.checked };
+  }
+}
+
+/**
+ * The journeys' `test`: every page of every browser context a test opens (its own `page` and any
+ * `browser.newContext()`) is checked automatically on every screen it visits, and the test fails
+ * listing each screen with an axe-core violation or sideways overflow at 390 px.
+ */
+export const test = base.extend<{ screenChecks: void }>({
+  screenChecks: [
+    async ({ context, browser }, use, testInfo) => {
+      const watch = new ScreenWatch();
+      const contexts: BrowserContext[] = [context];
+      const hook = (c: BrowserContext) => {
+        for (const p of c.pages()) watch.watch(p);
+        c.on('page', (p) => watch.watch(p));
+      };
+      hook(context);
+      const b = browser as Browser & { newContext: Browser['newContext'] };
+      const original = b.newContext;
+      b.newContext = async (...args: Parameters<Browser['newContext']>) => {
+        const c = await original.apply(browser, args);
+        contexts.push(c);
+        hook(c);
+        return c;
+      };
+      try {
+        await use();
+      } finally {
+        b.newContext = original;
+      }
+      if (testInfo.status !== testInfo.expectedStatus) return; // the journey's own failure is the story
+      const { findings, checked } = await watch.finish(contexts.flatMap((c) => c.pages()));
+      testInfo.annotations.push({ type: 'screens checked', description: String(checked) });
+      expect(findings, 'screens with an axe-core violation or sideways overflow at 390 px').toEqual([]);
+    },
+    { auto: true },
+  ],
+});
 
 export const DEMO_PASSWORD = 'fieldproof-demo';
 

@@ -1,4 +1,4 @@
-import { test, expect } from '@playwright/test';
+import { test, expect } from './fixtures';
 import { DEMO_PASSWORD, lastMailId, linkIn, signIn, signOut, waitForMail } from './fixtures';
 
 // Runs in the last project (see playwright.config.ts): it leaves this account on a new password.

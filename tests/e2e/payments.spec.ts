@@ -1,5 +1,5 @@
 import { readFileSync } from 'node:fs';
-import { test, expect } from '@playwright/test';
+import { test, expect } from './fixtures';
 import { parse } from 'csv-parse/sync';
 import { signIn, signOut } from './fixtures';
 
@@ -10,6 +10,9 @@ const REFERENCE = `ACH E2E-${Date.now().toString().slice(-6)}`;
  * The accountant pays an agency's ready claims in one run and downloads the paid-claims CSV;
  * the agency's admin then sees the run, its reference and the claims marked paid.
  */
+// the payment date must lie between the run's creation day and tomorrow: pay it today (UTC)
+const PAID_ON = new Date().toISOString().slice(0, 10);
+
 test('the accountant creates a payment run, marks it paid, downloads the CSV; the agency admin sees the payment', async ({ page }) => {
   test.setTimeout(90_000);
   await signIn(page, 'accounts@larkfield.test');
@@ -45,7 +48,7 @@ test('the accountant creates a payment run, marks it paid, downloads the CSV; th
   await page.getByRole('button', { name: 'Mark paid' }).click();
   const dialog = page.getByRole('dialog', { name: `Mark ${runNumber} paid` });
   await expect(dialog).toBeVisible();
-  await dialog.getByLabel('Payment date').fill('2026-06-15');
+  await dialog.getByLabel('Payment date').fill(PAID_ON);
   await dialog.getByLabel('Bank or check reference').fill(REFERENCE);
   await dialog.getByRole('button', { name: 'Confirm payment' }).click();
   await expect(dialog).toBeHidden();
@@ -56,12 +59,12 @@ test('the accountant creates a payment run, marks it paid, downloads the CSV; th
   // Download the paid-claims CSV for that payment date; the progress note ends with what was saved.
   await page.getByRole('link', { name: 'Payment runs' }).first().click();
   const exportCard = page.getByRole('region', { name: 'Paid-claims export' });
-  await exportCard.getByLabel('Paid from').fill('2026-06-15');
-  await exportCard.getByLabel('Paid to').fill('2026-06-15');
+  await exportCard.getByLabel('Paid from').fill(PAID_ON);
+  await exportCard.getByLabel('Paid to').fill(PAID_ON);
   const downloadPromise = page.waitForEvent('download');
   await exportCard.getByRole('button', { name: 'Download CSV' }).click();
   const download = await downloadPromise;
-  expect(download.suggestedFilename()).toMatch(/^paid-claims-2026-06-15-to-2026-06-15\.csv$/);
+  expect(download.suggestedFilename()).toBe(`paid-claims-${PAID_ON}-to-${PAID_ON}.csv`);
   await expect(exportCard.getByTestId('export-done')).toContainText(/Saved paid-claims-.*\.csv: \d+ rows?/);
   const csv = readFileSync((await download.path())!, 'utf8');
   const rows = parse(csv, { columns: true, record_delimiter: ['\r\n'] }) as Record<string, string>[];
@@ -69,7 +72,7 @@ test('the accountant creates a payment run, marks it paid, downloads the CSV; th
   expect(ours.map((r) => r.claim_number).sort()).toEqual([...numbers].sort());
   for (const r of ours) {
     expect(r.payment_reference).toBe(REFERENCE);
-    expect(r.payment_date).toBe('2026-06-15');
+    expect(r.payment_date).toBe(PAID_ON);
     expect(r.agency).toBe(AGENCY);
     expect(r.approved_total).toMatch(/^\d+\.\d{2}$/);
   }

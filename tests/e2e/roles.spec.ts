@@ -1,4 +1,5 @@
-import { test, expect, request as apiRequest, type APIRequestContext } from '@playwright/test';
+import { request as apiRequest, type APIRequestContext } from '@playwright/test';
+import { test, expect } from './fixtures';
 import { apiClaimNumbers, demoRoles, DEMO_PASSWORD, signIn, signOut } from './fixtures';
 
 /** What each role may list, read from the API as that role (the server scopes the list in SQL). */

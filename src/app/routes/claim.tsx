@@ -182,8 +182,8 @@ export function ClaimRoute() {
         )}
         <ClaimActionsBar claim={c} approveSummary={valuation.data ? `Approving ${formatCents(valuation.data.totals.approved.totalCents, c.currency)} in all.` : undefined} />
       </div>
-      <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
-        <div className="space-y-5">
+      <div className="grid grid-cols-1 gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
+        <div className="min-w-0 space-y-5">
           {c.state === 'in_review' && c.canTakeOver && <TakeOverPanel claim={c} />}
           {c.state === 'in_review' && may('adjust') && !c.canTakeOver && <AdjustmentsPanel claim={c} valuation={valuation.data} />}
           <ClaimStory claim={c} />
@@ -193,7 +193,7 @@ export function ClaimRoute() {
           <ReadingsPanel claimId={c.id} />
           <EvidencePanel claimId={c.id} editable={false} retractable={(c.state === 'submitted' || c.state === 'in_review') && ability.can('upload', subject('Claim', { ...c, state: 'draft' }))} />
         </div>
-        <div className="space-y-5">
+        <div className="min-w-0 space-y-5">
           <ClaimUnitCard claim={c} />
           <ClaimSiteCard claim={c} />
           <ClaimDatesCard claim={c} />

@@ -52,7 +52,7 @@ export function AgenciesPanel({ selectedId, onSelect }: { selectedId: string | n
                 <Th>Terms today</Th>
                 <Th>Status</Th>
                 <Th>
-                  <span className="sr-only">Actions</span>
+                  Actions
                 </Th>
               </Tr>
             </THead>
@@ -177,7 +177,7 @@ function AgencyDetailCard({ id, onClose }: { id: string; onClose: () => void }) 
                       <Th className="text-right">Parts</Th>
                       <Th className="text-right">Filing</Th>
                       <Th>
-                        <span className="sr-only">Actions</span>
+                        Actions
                       </Th>
                     </Tr>
                   </THead>

@@ -39,7 +39,7 @@ export function FamiliesPanel() {
               <Th>Fuel</Th>
               <Th>Status</Th>
               <Th>
-                <span className="sr-only">Actions</span>
+                Actions
               </Th>
             </Tr>
           </THead>

@@ -54,7 +54,7 @@ export function ModelsPanel() {
               <Th className="text-right">Readings</Th>
               <Th>Status</Th>
               <Th>
-                <span className="sr-only">Actions</span>
+                Actions
               </Th>
             </Tr>
           </THead>

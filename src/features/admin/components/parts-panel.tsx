@@ -54,7 +54,7 @@ export function PartsPanel() {
               <Th>Return</Th>
               <Th>Status</Th>
               <Th>
-                <span className="sr-only">Actions</span>
+                Actions
               </Th>
             </Tr>
           </THead>

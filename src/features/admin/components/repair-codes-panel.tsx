@@ -54,7 +54,7 @@ export function RepairCodesPanel() {
               <Th>Required evidence</Th>
               <Th>Status</Th>
               <Th>
-                <span className="sr-only">Actions</span>
+                Actions
               </Th>
             </Tr>
           </THead>

@@ -97,7 +97,7 @@ export function UsersTable({ items, roles, currentUserId, pendingId, onChangeRol
         : []),
       column.display({
         id: 'actions',
-        header: () => <span className="sr-only">Actions</span>,
+        header: 'Actions',
         cell: (c) => (
           <span className="flex flex-wrap justify-end gap-2">
             {onCertifications && (

@@ -228,7 +228,7 @@ export function ClaimEditor({ claim, renderValuation, submitClaim, onSubmitted, 
 
       {catalogError && <Alert tone="error">The catalogue could not be loaded: {errorMessage(catalogError)}</Alert>}
 
-      <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
+      <div className="grid grid-cols-1 gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-5">
           <Section id="section-unit" title="Unit" note={noteFor('unit')}>
             {claim.unit ? (

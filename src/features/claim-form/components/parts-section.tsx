@@ -1,4 +1,4 @@
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState, type KeyboardEvent } from 'react';
 import { useFieldArray, useWatch, type UseFormReturn } from 'react-hook-form';
 import type { CatalogModel, CatalogPart } from '@shared/schemas/catalog';
 import { Badge } from '@/components/ui/badge';
@@ -17,36 +17,84 @@ function matches(p: CatalogPart, q: string): boolean {
   return words.every((w) => text.includes(w));
 }
 
-/** Search the catalogue by part number or words of the description; a result adds a line. */
-function PartPicker({ parts, currency, onPick }: { parts: readonly CatalogPart[]; currency: string; onPick: (p: CatalogPart) => void }) {
+/**
+ * Search the catalogue by part number or words of the description; a result adds a line.
+ * A combobox with a listbox of results (WAI-ARIA APG pattern): ArrowDown/ArrowUp move the
+ * active option (aria-activedescendant), Enter adds it, Escape closes the list and clears the text.
+ */
+export function PartPicker({ parts, currency, onPick }: { parts: readonly CatalogPart[]; currency: string; onPick: (p: CatalogPart) => void }) {
   const [q, setQ] = useState('');
+  const [active, setActive] = useState(-1);
   const listId = useId();
   const results = q.trim() === '' ? [] : parts.filter((p) => matches(p, q)).slice(0, 8);
+  const open = results.length > 0;
+  const optionId = (i: number) => `${listId}-option-${i}`;
+  const pick = (p: CatalogPart) => {
+    setQ('');
+    setActive(-1);
+    onPick(p);
+  };
+  const onKeyDown = (e: KeyboardEvent<HTMLInputElement>) => {
+    if (e.key === 'ArrowDown') {
+      if (!open) return;
+      e.preventDefault();
+      setActive((a) => (a + 1) % results.length);
+    } else if (e.key === 'ArrowUp') {
+      if (!open) return;
+      e.preventDefault();
+      setActive((a) => (a <= 0 ? results.length - 1 : a - 1));
+    } else if (e.key === 'Enter') {
+      // Enter never submits the claim form from the search field
+      e.preventDefault();
+      const chosen = results[active] ?? (results.length === 1 ? results[0] : undefined);
+      if (chosen) pick(chosen);
+    } else if (e.key === 'Escape') {
+      if (q === '') return;
+      e.preventDefault();
+      setQ('');
+      setActive(-1);
+    }
+  };
   return (
     <div className="space-y-2">
-      <FormField id={fieldDomId('partLines')} label="Add a part" hint="Type a part number or words of its name.">
-        {(p) => <Input {...p} type="search" value={q} onChange={(e) => setQ(e.target.value)} aria-controls={listId} autoComplete="off" />}
+      <FormField id={fieldDomId('partLines')} label="Add a part" hint="Type a part number or words of its name; arrow keys choose, Enter adds.">
+        {(p) => (
+          <Input
+            {...p}
+            type="text"
+            role="combobox"
+            aria-autocomplete="list"
+            aria-expanded={open}
+            aria-controls={listId}
+            aria-activedescendant={open && active >= 0 ? optionId(active) : undefined}
+            value={q}
+            onChange={(e) => {
+              setQ(e.target.value);
+              setActive(-1);
+            }}
+            onKeyDown={onKeyDown}
+            autoComplete="off"
+          />
+        )}
       </FormField>
-      <ul id={listId} aria-label="Matching parts" className="divide-y divide-ink-100 rounded-md border border-ink-100 empty:hidden">
-        {results.map((p) => (
-          <li key={p.id}>
-            <button
-              type="button"
-              className="flex w-full flex-wrap items-center justify-between gap-2 px-3 py-2.5 text-left text-sm hover:bg-paper focus:bg-paper"
-              onClick={() => {
-                onPick(p);
-                setQ('');
-              }}
-            >
-              <span>
-                <span className="font-mono font-medium">{p.partNumber}</span> {p.description}
-              </span>
-              <span className="flex items-center gap-2">
-                {p.returnRequired && <Badge tone="orange">Return required</Badge>}
-                <span className="tabular-nums text-ink-700">{formatCents(p.listPriceCents, currency)}</span>
-                <span className="sr-only">: add</span>
-              </span>
-            </button>
+      <ul id={listId} role="listbox" aria-label="Matching parts" className="divide-y divide-ink-100 rounded-md border border-ink-100 empty:hidden">
+        {results.map((p, i) => (
+          <li
+            key={p.id}
+            id={optionId(i)}
+            role="option"
+            aria-selected={i === active}
+            className={`flex w-full cursor-pointer flex-wrap items-center justify-between gap-2 px-3 py-2.5 text-left text-sm hover:bg-paper ${i === active ? 'bg-paper outline-2 -outline-offset-2 outline-ink-600' : ''}`}
+            onMouseDown={(e) => e.preventDefault()}
+            onClick={() => pick(p)}
+          >
+            <span className="min-w-0 break-words">
+              <span className="font-mono font-medium">{p.partNumber}</span> {p.description}
+            </span>
+            <span className="flex items-center gap-2">
+              {p.returnRequired && <Badge tone="orange">Return required</Badge>}
+              <span className="tabular-nums text-ink-700">{formatCents(p.listPriceCents, currency)}</span>
+            </span>
           </li>
         ))}
       </ul>
@@ -68,9 +116,21 @@ export function PartsSection({
   currency: string;
   note?: ReturnInfo | null;
 }) {
-  const { control, register, formState, getValues, setValue, clearErrors } = form;
+  const { control, register, formState, getValues, setValue, clearErrors, setFocus } = form;
   const { fields } = useFieldArray({ control, name: 'partLines' });
-  const append = (line: { partId: string; quantity: number }) => setValue('partLines', [...(getValues('partLines') ?? []), line], { shouldDirty: true });
+  // after a part is added, focus moves to the new line's first field (its quantity)
+  const focusLine = useRef<number | null>(null);
+  const append = (line: { partId: string; quantity: number }) => {
+    const next = [...(getValues('partLines') ?? []), line];
+    focusLine.current = next.length - 1;
+    setValue('partLines', next, { shouldDirty: true });
+  };
+  useEffect(() => {
+    const i = focusLine.current;
+    if (i === null || i >= fields.length) return;
+    focusLine.current = null;
+    setFocus(`partLines.${i}.quantity`, { shouldSelect: true });
+  }, [fields.length, setFocus]);
   const remove = (i: number) => {
     clearErrors('partLines');
     setValue(

@@ -21,7 +21,7 @@ export function SafetyCautions({ topic, gas, className }: { topic: CautionTopic;
           ...(gas ? ['Where readings follow gas work, check the connections for leaks first, never with an open flame (NFPA 54).'] : []),
         ];
   return (
-    <aside aria-label={topic === 'repair' ? 'Safety before service' : 'Safety while taking readings'} className={cx('rounded-md border border-orange-300 bg-orange-50 px-3 py-2 text-sm text-orange-950', className)}>
+    <section aria-label={topic === 'repair' ? 'Safety before service' : 'Safety while taking readings'} className={cx('rounded-md border border-orange-300 bg-orange-50 px-3 py-2 text-sm text-orange-950', className)}>
       <p className="flex items-center gap-2 font-semibold">
         <svg aria-hidden="true" viewBox="0 0 20 20" className="size-4 shrink-0" fill="currentColor">
           <path d="M10 2 1 18h18L10 2Zm0 5 .9 6h-1.8L10 7Zm0 8.2a1.1 1.1 0 1 1 0 2.2 1.1 1.1 0 0 1 0-2.2Z" />
@@ -34,6 +34,6 @@ export function SafetyCautions({ topic, gas, className }: { topic: CautionTopic;
         ))}
       </ul>
       <p className="mt-1 text-xs">Follow the manufacturer’s service procedures, local codes and licensed practice; these notes do not replace them.</p>
-    </aside>
+    </section>
   );
 }

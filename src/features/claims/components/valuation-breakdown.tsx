@@ -142,7 +142,7 @@ export function ValuationBreakdown({ valuation }: { valuation: Valuation }) {
         <Table caption="Totals entered, allowed and approved">
           <THead>
             <Tr>
-              <Th />
+              <Th>Amount</Th>
               <Th className="text-right">Entered</Th>
               <Th className="text-right">Allowed</Th>
               <Th className="text-right">Approved</Th>

@@ -4,7 +4,7 @@
  */
 export function EvidenceCautions({ gas }: { gas: boolean }) {
   return (
-    <aside aria-label="Safety while taking photos and readings" className="rounded-md border border-orange-300 bg-orange-50 px-3 py-2 text-sm text-orange-950">
+    <section aria-label="Safety while taking photos and readings" className="rounded-md border border-orange-300 bg-orange-50 px-3 py-2 text-sm text-orange-950">
       <p className="font-semibold">Safety at the unit</p>
       <ul className="mt-1 list-disc space-y-0.5 pl-5">
         <li>Lock out and tag out electrical power (and close the gas) before reaching inside a panel for a photo of a part (OSHA 29 CFR 1910.147).</li>
@@ -13,6 +13,6 @@ export function EvidenceCautions({ gas }: { gas: boolean }) {
         <li>Photograph a serial plate under heavy equipment only once the unit is raised and blocked safely, with help or a lift.</li>
       </ul>
       <p className="mt-1 text-xs">Follow the manufacturer’s service procedures and local codes first.</p>
-    </aside>
+    </section>
   );
 }

@@ -51,7 +51,7 @@ describe('EvidenceGallery', () => {
     expect(thumbs.map((i) => i.getAttribute('src'))).toEqual(['/api/attachments/a1/thumbnail', '/api/attachments/a2/thumbnail']);
     expect(within(gallery).getByText('Photo taken outside the service window')).toBeInTheDocument();
 
-    await user.click(screen.getByRole('button', { name: 'Open Failed part: part.jpg' }));
+    await user.click(screen.getByRole('button', { name: /^Open Failed part: part\.jpg/ }));
     const dialog = screen.getByRole('dialog');
     expect(within(dialog).getByRole('img', { name: /part\.jpg/ })).toHaveAttribute('src', '/api/attachments/a1/preview');
     expect(dialog).toHaveTextContent('2026-03-09 23:30:00 (UTC-08:00)');

@@ -77,6 +77,13 @@ export function EvidenceGallery({ attachments, flags, claimId, manage }: { attac
   const [openId, setOpenId] = useState<string | null>(null);
   const open = attachments.find((a) => a.id === openId) ?? null;
   if (attachments.length === 0) return <p className="text-sm text-ink-600">No photos or documents attached yet.</p>;
+  // the spoken name holds every word shown on the button (role, file name, flags), after the verb
+  const openLabel = (a: (typeof attachments)[number], mine: typeof flags) =>
+    [
+      `Open ${attachmentRoleLabels[a.role]}: ${a.originalName}`,
+      ...(a.retractedAt ? [`Retracted by the agency: ${a.retractionReason ?? ''}`] : []),
+      ...new Set(mine.map((f) => evidenceFlagLabels[f.code])),
+    ].join(' ');
   return (
     <>
       <ul className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-4" aria-label="Evidence gallery">
@@ -84,7 +91,7 @@ export function EvidenceGallery({ attachments, flags, claimId, manage }: { attac
           const mine = flags.filter((f) => f.attachmentId === a.id);
           return (
             <li key={a.id} className={cx('overflow-hidden rounded-md border border-ink-100 bg-white', a.retractedAt && 'opacity-70')}>
-              <button type="button" onClick={() => setOpenId(a.id)} className="block w-full text-left focus-visible:outline-2 focus-visible:outline-ink-600" aria-label={`Open ${attachmentRoleLabels[a.role]}: ${a.originalName}`}>
+              <button type="button" onClick={() => setOpenId(a.id)} className="block w-full text-left focus-visible:outline-2 focus-visible:outline-ink-600" aria-label={openLabel(a, mine)}>
                 <img src={a.thumbnailUrl} alt="" loading="lazy" className="aspect-[4/3] w-full bg-ink-50 object-cover" />
                 <span className="block space-y-0.5 p-2">
                   <span className="block text-sm font-medium text-ink-900">{attachmentRoleLabels[a.role]}</span>
