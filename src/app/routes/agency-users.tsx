@@ -1,3 +1,4 @@
+import { ApprovalLimitsPanel } from '@/features/admin/components/approval-limits-panel';
 import { useCallback, useState } from 'react';
 import { useSearchParams } from 'react-router';
 import type { QueryClient } from '@tanstack/react-query';
@@ -68,12 +69,12 @@ export function AgencyUsersRoute() {
           ))}
         </div>
       )}
-      {tab === 'people' ? <People scope={scope} currentUserId={me?.user.id} /> : <Profile />}
+      {tab === 'people' ? <People scope={scope} currentUserId={me?.user.id} limits={me?.user.role === 'manufacturer_admin'} /> : <Profile />}
     </div>
   );
 }
 
-function People({ scope, currentUserId }: { scope: UsersScope; currentUserId: string | undefined }) {
+function People({ scope, currentUserId, limits = false }: { scope: UsersScope; currentUserId: string | undefined; limits?: boolean }) {
   const users = useUsers(scope);
   const invitations = useInvitations();
   const update = useUpdateUser(scope);
@@ -127,6 +128,7 @@ function People({ scope, currentUserId }: { scope: UsersScope; currentUserId: st
           />
         )}
       </Card>
+      {scope === 'manufacturer' && limits && <ApprovalLimitsPanel />}
       <Card>
         <CardHeader title="Invitations waiting for an answer" />
         {invitations.isError && (
