@@ -20,6 +20,7 @@ import { CalculationInputError } from './errors';
 import { computeCoverage, coverageForPart, type ComponentTerm, type CoverageResult, type CoverageTerms } from './coverage';
 import { daysBetween, isWithin, parseIsoDate } from './dates';
 import { FLAG_INFO, type FlagCode } from './flags';
+import { filingWindow } from './filing-window';
 import { money, num, rateText } from './format';
 import { computeLaborLine, hasText, laborAmountExact, type LaborContract, type LaborLineInput } from './labor';
 import { minorUnits, roundRationalToCents, assertCents } from './money';
@@ -489,9 +490,10 @@ export function valueClaim(input: ValuationInput): Valuation {
   }
   const filedOn = input.filedDate ?? input.asOfDate ?? null;
   if (filedOn) {
-    const days = daysBetween(input.repairDate, filedOn);
+    const window = filingWindow(input.repairDate, windowDays, filedOn);
+    const days = window.daysAfterRepair;
     const draft = !input.filedDate;
-    if (days > windowDays) {
+    if (window.late) {
       addFlag(
         'filed_late',
         draft

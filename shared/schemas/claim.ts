@@ -156,6 +156,11 @@ export interface ClaimListItem {
   flags: string[];
   /** Who took the claim for review (start review), if anyone has. */
   reviewerName?: string | null;
+  /**
+   * On drafts listed on the home page: the filing window on the agency's today, from the
+   * contract terms in force on the repair date; null when the repair date or terms are missing.
+   */
+  filing?: { lastDay: string; daysLeft: number; late: boolean } | null;
 }
 
 export interface ClaimDetail extends ClaimListItem {

@@ -8,6 +8,8 @@ import type { RequestContext } from '../../lib/context';
 import { todayFor } from '../../lib/business-day';
 import { certifications, claimPartLines, claims, models, organisations, parts, paymentRunItems, paymentRuns, repairCodes, users } from '../../db/schema/index';
 import { addDays } from '@shared/calculations/dates';
+import { filingWindow } from '@shared/calculations/filing-window';
+import { termsOn } from '../admin/agencies.queries';
 import type { ClaimState } from '@shared/schemas/claim';
 import type { HomeCard, HomeResponse } from '@shared/schemas/home';
 import { countClaimsWhere, listClaimsWhere } from '../claims/claims.queries';
@@ -33,6 +35,20 @@ export function createHomeService(deps: AppDeps) {
       tone: c.tone,
       kind: 'queue',
       amount: c.amount ?? 'allowed',
+    };
+  }
+
+  /** Drafts carry their filing window on the agency's today (at most ITEMS primary-key reads). */
+  function withFiling(ctx: RequestContext, card: HomeCard): HomeCard {
+    const today = todayFor(deps.db, deps.clock, ctx.user.organisationId);
+    return {
+      ...card,
+      items: card.items.map((item) => {
+        const terms = item.repairDate ? termsOn(db, item.agencyId, item.repairDate) : undefined;
+        if (!item.repairDate || !terms) return { ...item, filing: null };
+        const w = filingWindow(item.repairDate, terms.filingWindowDays, today);
+        return { ...item, filing: { lastDay: w.lastDay, daysLeft: w.daysLeft, late: w.late } };
+      }),
     };
   }
 
@@ -63,14 +79,14 @@ export function createHomeService(deps: AppDeps) {
       case 'technician':
         cards = [
           claimCard(ctx, { key: 'my_returned', label: 'Returned to you', hint: 'Read the reviewer’s reason, fix and resubmit', where: inState('returned'), href: '/claims?state=returned', tone: 'warning' }),
-          claimCard(ctx, { key: 'my_drafts', label: 'Your drafts', hint: 'Finish and submit', where: inState('draft'), href: '/claims?state=draft', tone: 'action' }),
+          withFiling(ctx, claimCard(ctx, { key: 'my_drafts', label: 'Your drafts', hint: 'Finish and submit', where: inState('draft'), href: '/claims?state=draft', tone: 'action' })),
           claimCard(ctx, { key: 'my_waiting', label: 'With the reviewer', hint: 'Nothing to do until the reviewer decides', where: inArray(claims.state, ['submitted', 'in_review']), href: '/claims?state=submitted', tone: 'info', order: 'oldest_submitted' }),
         ];
         break;
       case 'agency_admin': {
         cards = [
           claimCard(ctx, { key: 'agency_returned', label: 'Returned claims', hint: 'Fix and resubmit', where: inState('returned'), href: '/claims?state=returned', tone: 'warning' }),
-          claimCard(ctx, { key: 'agency_drafts', label: 'Drafts', hint: 'Finish and submit', where: inState('draft'), href: '/claims?state=draft', tone: 'action' }),
+          withFiling(ctx, claimCard(ctx, { key: 'agency_drafts', label: 'Drafts', hint: 'Finish and submit', where: inState('draft'), href: '/claims?state=draft', tone: 'action' })),
           claimCard(ctx, { key: 'agency_approved', label: 'Approved, awaiting payment', hint: 'Paid in the manufacturer’s next payment run', where: inState('approved'), href: '/claims?state=approved', tone: 'info', order: 'oldest_decided', amount: 'approved' }),
           claimCard(ctx, { key: 'agency_part_returns', label: 'Parts to return', hint: 'Ship the failed parts back so the claims can be paid', where: and(inState('approved'), awaitingReturn) as SQL, href: '/claims?state=approved', tone: 'action', order: 'oldest_decided', amount: 'approved' }),
         ];

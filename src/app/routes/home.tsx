@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { Skeleton } from '@/components/ui/skeleton';
 import { errorMessage } from '@/lib/api-client';
+import { NewClaimButton } from '@/features/claims/components/new-claim-button';
 import { useSession } from '@/features/auth/api/get-me';
 import { loadOrSignIn, requireSession } from '../require-session';
 import { homeQueries, useHome } from '@/features/home/api/get-home';
@@ -30,6 +31,7 @@ export function HomeRoute() {
   return (
     <div className="space-y-5">
       <title>Home · Fieldproof</title>
+      <div className="flex flex-wrap items-start justify-between gap-3">
       <div>
         <h1 className="text-2xl font-semibold text-ink-900">
           {greeting(new Date())}
@@ -40,6 +42,8 @@ export function HomeRoute() {
             {roleLabels[me.user.role]} at {me.organisation.name} · what needs your action now
           </p>
         )}
+      </div>
+      <NewClaimButton />
       </div>
       {home.isError && (
         <Alert tone="error" title="Your queues could not be loaded">

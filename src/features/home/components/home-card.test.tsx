@@ -57,3 +57,22 @@ describe('HomeCard', () => {
     expect(screen.getByText('None yet.')).toBeInTheDocument();
   });
 });
+
+describe('HomeCard drafts', () => {
+  it('shows the days left to file on a draft, and that the window has passed on a late one', () => {
+    renderCard(
+      card({
+        count: 3,
+        tone: 'action',
+        items: [
+          item({ id: 'd1', number: 'FP-2026-000011', state: 'draft', approvedTotalCents: null, filing: { lastDay: '2026-06-20', daysLeft: 5, late: false } }),
+          item({ id: 'd2', number: 'FP-2026-000012', state: 'draft', approvedTotalCents: null, filing: { lastDay: '2026-06-15', daysLeft: 0, late: false } }),
+          item({ id: 'd3', number: 'FP-2026-000013', state: 'draft', approvedTotalCents: null, filing: { lastDay: '2026-06-10', daysLeft: -5, late: true } }),
+        ],
+      }),
+    );
+    expect(screen.getByText('5 days left to file')).toBeInTheDocument();
+    expect(screen.getByText('Last day to file')).toBeInTheDocument();
+    expect(screen.getByText('Filing window passed on 2026-06-10')).toBeInTheDocument();
+  });
+});

@@ -1,5 +1,6 @@
 import { Link } from 'react-router';
 import type { HomeCard as HomeCardData } from '@shared/schemas/home';
+import type { ClaimListItem } from '@shared/schemas/claim';
 import { paths } from '@/config/paths';
 import { cx } from '@/lib/cx';
 import { ageInDays, formatCents } from '@/lib/format';
@@ -12,6 +13,13 @@ const toneBar: Record<HomeCardData['tone'], string> = {
 };
 
 const amountWord: Record<HomeCardData['amount'], string> = { approved: 'Approved', allowed: 'Allowed' };
+
+/** What a draft's filing window says on its agency's today. */
+export function filingText(f: NonNullable<ClaimListItem['filing']>): string {
+  if (f.late) return `Filing window passed on ${f.lastDay}`;
+  if (f.daysLeft === 0) return 'Last day to file';
+  return `${f.daysLeft} day${f.daysLeft === 1 ? '' : 's'} left to file`;
+}
 
 /** One queue: how many wait, what to do, and the oldest few, each one tap away. */
 export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData; now?: Date; showAgency?: boolean }) {
@@ -49,7 +57,11 @@ export function HomeCard({ card, now, showAgency = true }: { card: HomeCardData;
                         <span className="sr-only">{amountWord[card.amount]} </span>
                         {formatCents(card.amount === 'approved' ? (c.approvedTotalCents ?? c.claimedTotalCents) : c.claimedTotalCents, c.currency)}
                       </span>
-                      <span className="block text-xs text-ink-600">{age === null ? '' : age === 0 ? 'today' : `${age} day${age === 1 ? '' : 's'} old`}</span>
+                      {c.state === 'draft' && c.filing ? (
+                        <span className={cx('block text-xs', c.filing.late ? 'font-medium text-orange-800' : 'text-ink-600')}>{filingText(c.filing)}</span>
+                      ) : (
+                        <span className="block text-xs text-ink-600">{age === null ? '' : age === 0 ? 'today' : `${age} day${age === 1 ? '' : 's'} old`}</span>
+                      )}
                     </span>
                   </Link>
                 </li>
