@@ -130,6 +130,20 @@ describe('ClaimEditor autosave', () => {
     expect(screen.getByText(/Not saved yet/)).toBeInTheDocument();
   });
 
+  it('refuses hours "1,5" in an en-US browser with a message, and never saves them as 15', async () => {
+    fake = catalogAnd(() => json(draft({ version: 4 })));
+    renderEditor();
+    const user = userEvent.setup();
+    const line = await screen.findByRole('listitem', { name: 'Labor line 1' });
+    const hours = within(line).getByLabelText('Hours worked');
+    await user.clear(hours);
+    await user.type(hours, '1,5');
+    await user.tab();
+    await waitFor(() => expect(hours).toHaveAttribute('aria-invalid', 'true'), { timeout: 4000 });
+    expect(hours).toHaveAccessibleDescription(/point for decimals/);
+    for (const c of patches()) expect(JSON.stringify(c.body)).not.toMatch(/"hoursWorked":15\b/);
+  });
+
   it('on a stale version reloads the latest claim into the form and says so', async () => {
     const latest = draft({ version: 9, complaint: 'Changed in another tab.' });
     let first = true;
