@@ -16,6 +16,7 @@ const isoDate = z.iso.date('Use a date as YYYY-MM-DD, like 2026-03-31.');
 const required = (max: number, message: string, label: string, min = 1) => oneLine({ max, min, label, required: message });
 /** A text field that may be left blank: '' is stored as null. */
 const optionalText = (max: number, label: string) => optionalOneLine({ max, label });
+const optionalOneLineReason = optionalOneLine({ max: 500, label: 'The reason' }).optional();
 const id = (message = 'Choose one.') => z.string().min(1, message).max(64);
 /** An e-mail that may be left blank: '' is stored as null. */
 const optionalEmail = z
@@ -290,8 +291,12 @@ export const updateModelSchema = z
     capMonthsFromShip: warrantyTerms.capMonthsFromShip.optional(),
     installGraceDays: warrantyTerms.installGraceDays.optional(),
     active: z.boolean().optional(),
-    /** Replaces the model's longer parts-only terms as a whole. */
+    /** Replaces the model's parts-only component terms as a whole. */
     componentTerms: z.array(componentTermSchema).max(20).optional(),
+    /** The first ship (or registration) date the new warranty terms apply to; defaults to today. */
+    termsEffectiveFrom: isoDate.optional(),
+    /** Required when a change takes effect in the past. */
+    reason: optionalOneLineReason,
   })
   .refine(capCoversTerms, capMessage);
 export type CreateModelBody = z.input<typeof createModelSchema>;
@@ -342,6 +347,8 @@ export const updatePartSchema = z
     listPriceCents: cents('the list price').optional(),
     /** The first repair date the new price applies to; defaults to today. */
     priceEffectiveFrom: isoDate.optional(),
+    /** Required when the new price takes effect in the past. */
+    reason: optionalOneLineReason,
   })
   .refine((v) => v.priceEffectiveFrom === undefined || v.listPriceCents !== undefined, {
     message: 'Give the new price that takes effect on this date.',
@@ -368,6 +375,8 @@ export const updateRepairCodeSchema = z
     allowedHours: hours.optional(),
     /** The first repair date the new allowance applies to; defaults to today. */
     allowanceEffectiveFrom: isoDate.optional(),
+    /** Required when the new allowance takes effect in the past. */
+    reason: optionalOneLineReason,
   })
   .refine((v) => v.allowanceEffectiveFrom === undefined || v.allowedHours !== undefined, {
     message: 'Give the new allowance that takes effect on this date.',
@@ -397,7 +406,16 @@ export interface ReadingSpecItem {
   requiredForCodes: string[];
 }
 
+/** Filed claims a back-dated change touches: how many, and the first claim numbers. */
+export interface AffectedClaims {
+  effectiveFrom: string;
+  count: number;
+  numbers: string[];
+}
+
 export interface ModelItem {
+  /** Only on the answer to a change that took effect in the past. */
+  affectedClaims?: AffectedClaims;
   id: string;
   familyId: string;
   familyCode: string;
@@ -420,6 +438,8 @@ export interface PriceHistoryItem {
 }
 
 export interface PartItem {
+  /** Only on the answer to a change that took effect in the past. */
+  affectedClaims?: AffectedClaims;
   id: string;
   partNumber: string;
   description: string;
@@ -441,6 +461,8 @@ export interface AllowanceHistoryItem {
 }
 
 export interface RepairCodeItem {
+  /** Only on the answer to a change that took effect in the past. */
+  affectedClaims?: AffectedClaims;
   id: string;
   code: string;
   familyId: string;

@@ -1,3 +1,4 @@
+import type { UnitTerms } from './unit';
 import { z } from 'zod';
 import type { ValuationInput } from '../calculations/valuation';
 import { FLAG_CODES } from '../calculations/flags';
@@ -190,6 +191,8 @@ export interface ClaimDetail extends ClaimListItem {
     shipDate: string;
     installDate: string | null;
     model: { id: string; modelNumber: string; name: string; familyId: string; familyName: string };
+    /** The unit's warranty terms (in force on its ship or registration date). */
+    terms: UnitTerms;
   };
   site: null | { id: string; name: string; addressLine: string; city: string; region: string; postalCode: string; latitude: number; longitude: number };
   laborLines: Array<{ id: string; position: number; repairCodeId: string; repairCode: string; description: string; allowedHours: number; hoursWorked: number; overtime: boolean; note: string; approvedHours: number | null; adjustmentReason: string | null; approvedAmountCents: number | null }>;

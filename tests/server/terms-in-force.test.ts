@@ -2,13 +2,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { agencyTerms, units } from '../../server/db/schema/index';
 import { newId } from '../../server/lib/ids';
-import { agencyIdByName, completeDraftBody, attachEvidence, daysAgo, HARBORVIEW, makeClaimsApp, move, type Agent } from './claims-fixtures';
+import { agencyIdByName, claimIn, completeDraftBody, attachEvidence, daysAgo, grillFixture, HARBORVIEW, makeClaimsApp, move, TODAY, type Agent } from './claims-fixtures';
 
 type App = Awaited<ReturnType<typeof makeClaimsApp>>;
 let t: App;
 let tech: Agent;
 let reviewer: Agent;
 let modelId: string;
+let mfr: Agent;
 
 /** A unit of the demo grill model, shipped on the given day. */
 function unitShipped(shipDate: string): string {
@@ -28,6 +29,7 @@ beforeAll(async () => {
   t = await makeClaimsApp();
   tech = await t.signIn('techA');
   reviewer = await t.signIn('reviewer');
+  mfr = await t.signIn('mfrAdmin');
   const { unit } = (await import('./claims-fixtures')).grillFixture(t);
   modelId = t.db.select({ modelId: units.modelId }).from(units).where(eq(units.id, unit.id)).get()!.modelId;
   // contract terms of the agency for 2021-2022 without a mileage rate of their own (the dated rate applies)
@@ -88,5 +90,56 @@ describe('submit refuses claims the terms cannot value', () => {
     expect(r.status).toBe(400);
     expect(r.body.error.fields.repairDate).toMatch(/no contract terms in force on the repair date 2023-05-02/);
     expect((await reviewer.get(`/api/claims/${c.id}`)).status).toBe(404); // still a draft
+  });
+});
+
+describe('warranty terms are fixed per unit by the terms in force when it shipped', () => {
+  it('editing the model labor term from 24 to 1 month does not change the value of a claim already in review', async () => {
+    // the claim's unit: a grill shipped before today; give the model a 24-month labor term first, in force since the start
+    const before = await mfr.patch(`/api/admin/models/${modelId}`).send({ laborMonths: 24, capMonthsFromShip: 120, partsMonths: 24, termsEffectiveFrom: '2000-01-01', reason: 'Terms as contracted' });
+    expect(before.status).toBe(200);
+    const c = await claimIn(t, { tech, reviewer }, 'in_review');
+    const v1 = await reviewer.get(`/api/claims/${c.id}/valuation`);
+    expect(v1.status).toBe(200);
+    expect(v1.body.totals.claimed.laborCents).toBeGreaterThan(0);
+
+    const change = await mfr.patch(`/api/admin/models/${modelId}`).send({ laborMonths: 1 }); // effective today
+    expect(change.status).toBe(200);
+    expect(change.body.laborMonths).toBe(1);
+    const v2 = await reviewer.get(`/api/claims/${c.id}/valuation`);
+    expect(v2.body.totals).toEqual(v1.body.totals);
+
+    // the claim page and the lookup show the unit's own terms, not the model's new ones
+    const detail = await reviewer.get(`/api/claims/${c.id}`);
+    expect(detail.body.unit.terms).toMatchObject({ basis: 'ship', laborMonths: 24, partsMonths: 24, effectiveFrom: '2000-01-01' });
+    const serial = grillFixture(t).unit.serial;
+    const lookup = await tech.get(`/api/units/${encodeURIComponent(serial)}`);
+    expect(lookup.body.terms.laborMonths).toBe(24);
+
+    // a unit shipped today takes the new term
+    const fresh = unitShipped(TODAY);
+    expect((await tech.get(`/api/units/${fresh}`)).body.terms).toMatchObject({ laborMonths: 1, effectiveFrom: TODAY, basisDate: TODAY });
+  });
+
+  it('a registered unit takes the terms in force on its registration date', async () => {
+    await mfr.patch(`/api/admin/models/${modelId}`).send({ laborMonths: 6, termsEffectiveFrom: '2024-01-01', reason: 'New terms from 2024' });
+    const serial = unitShipped('2023-06-01');
+    expect((await tech.get(`/api/units/${serial}`)).body.terms).toMatchObject({ basis: 'ship', laborMonths: 24 });
+    t.db.update(units).set({ registeredOn: '2024-02-01' }).where(eq(units.serial, serial)).run();
+    expect((await tech.get(`/api/units/${serial}`)).body.terms).toMatchObject({ basis: 'registration', basisDate: '2024-02-01', laborMonths: 6 });
+  });
+
+  it('a change in the past needs a reason and names the filed claims it touches', async () => {
+    const serial = unitShipped(daysAgo(40));
+    const c = await draft({ serial });
+    const filed = await move(tech, c.id, 'submit', c.version);
+    expect(filed.status).toBe(200);
+    const noReason = await mfr.patch(`/api/admin/models/${modelId}`).send({ partsMonths: 12, termsEffectiveFrom: daysAgo(45) });
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.error.fields.reason).toMatch(/takes effect in the past/);
+    const ok = await mfr.patch(`/api/admin/models/${modelId}`).send({ partsMonths: 12, termsEffectiveFrom: daysAgo(45), reason: 'Correction of a typing error' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.affectedClaims.count).toBeGreaterThanOrEqual(1);
+    expect(ok.body.affectedClaims.numbers).toContain(filed.body.number);
   });
 });

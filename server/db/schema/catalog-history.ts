@@ -1,5 +1,5 @@
 import { sqliteTable, text, integer, real, uniqueIndex } from 'drizzle-orm/sqlite-core';
-import { parts, repairCodes } from './catalog';
+import { models, parts, repairCodes } from './catalog';
 import { users } from './users';
 
 /**
@@ -64,3 +64,34 @@ export const mileageRates = sqliteTable(
 );
 
 export type MileageRateRow = typeof mileageRates.$inferSelect;
+
+/**
+ * Effective-dated warranty terms of a model. The terms of a unit are the row in force on its
+ * registration date, or its ship date when it is not registered: the latest effective_from on
+ * or before that date. A change applies to units shipped (or registered) on or after its
+ * effective date; units already in the field keep theirs. The columns on `models` and the
+ * `component_terms` rows mirror the terms in force today, for lists only.
+ */
+export const modelTerms = sqliteTable(
+  'model_terms',
+  {
+    id: text('id').primaryKey(),
+    modelId: text('model_id')
+      .notNull()
+      .references(() => models.id),
+    effectiveFrom: text('effective_from').notNull(),
+    partsMonths: integer('parts_months').notNull(),
+    laborMonths: integer('labor_months').notNull(),
+    capMonthsFromShip: integer('cap_months_from_ship').notNull(),
+    installGraceDays: integer('install_grace_days').notNull(),
+    /** JSON array of { partId, label, partsMonths }: parts-only terms of single components. */
+    componentTerms: text('component_terms', { mode: 'json' }).$type<{ partId: string; label: string; partsMonths: number }[]>().notNull(),
+    /** Why a change took effect in the past (required then). */
+    reason: text('reason'),
+    createdBy: text('created_by').references(() => users.id),
+    createdAt: text('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('model_terms_model_from_uq').on(t.modelId, t.effectiveFrom)],
+);
+
+export type ModelTermsRow = typeof modelTerms.$inferSelect;

@@ -82,7 +82,7 @@ export const claimLaborLines = sqliteTable(
     adjustmentReason: text('adjustment_reason'),
     approvedAmountCents: integer('approved_amount_cents'),
   },
-  (t) => [index('claim_labor_lines_claim_idx').on(t.claimId, t.position)],
+  (t) => [index('claim_labor_lines_claim_idx').on(t.claimId, t.position), index('claim_labor_lines_code_idx').on(t.repairCodeId)],
 );
 
 export const claimTravel = sqliteTable(
@@ -126,7 +126,7 @@ export const claimPartLines = sqliteTable(
     receivedCondition: text('received_condition', { enum: ['failure_confirmed', 'no_fault_found', 'not_returned'] }),
     waiveReason: text('waive_reason'),
   },
-  (t) => [index('claim_part_lines_claim_idx').on(t.claimId, t.position), index('claim_part_lines_return_idx').on(t.returnStatus)],
+  (t) => [index('claim_part_lines_claim_idx').on(t.claimId, t.position), index('claim_part_lines_return_idx').on(t.returnStatus), index('claim_part_lines_part_idx').on(t.partId)],
 );
 
 export const claimReadings = sqliteTable(

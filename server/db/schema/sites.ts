@@ -30,6 +30,8 @@ export const units = sqliteTable(
     revision: text('revision').notNull(),
     shipDate: text('ship_date').notNull(),
     installDate: text('install_date'),
+    /** Warranty registration date, when the unit was registered; its terms are those in force then. */
+    registeredOn: text('registered_on'),
     /** The manufacturer's registration of where the unit is installed; only the manufacturer's data writes it. An agency's knowledge of a site lives on its claims (claims.site_id). */
     siteId: text('site_id').references(() => sites.id),
     createdAt: text('created_at').notNull(),
@@ -38,7 +40,7 @@ export const units = sqliteTable(
     uniqueIndex('units_serial_uq').on(t.serial),
     // The serial look-up ignores case: lower(serial) = lower(?) must not scan.
     index('units_serial_lower_idx').on(sql`lower(${t.serial})`),
-    index('units_model_idx').on(t.modelId),
+    index('units_model_idx').on(t.modelId, t.shipDate),
     index('units_site_idx').on(t.siteId),
   ],
 );

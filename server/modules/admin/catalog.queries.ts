@@ -1,8 +1,9 @@
-import { and, asc, desc, eq, gt, inArray, lte } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, inArray, lte, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { componentTerms, models, partPrices, parts, productFamilies, readingSpecs, repairCodeAllowances, repairCodes } from '../../db/schema/index';
-import type { AllowanceHistoryItem, FamilyItem, ModelItem, PartItem, PriceHistoryItem, ReadingSpecItem, RepairCodeItem } from '@shared/schemas/admin';
+import { componentTerms, modelTerms, models, partPrices, parts, productFamilies, readingSpecs, repairCodeAllowances, repairCodes } from '../../db/schema/index';
+import type { AffectedClaims, AllowanceHistoryItem, FamilyItem, ModelItem, PartItem, PriceHistoryItem, ReadingSpecItem, RepairCodeItem } from '@shared/schemas/admin';
 import type { AttachmentRole } from '@shared/schemas/claim';
+import type { UnitTerms } from '@shared/schemas/unit';
 
 /**
  * The first effective date of a history: the price or allowance a part or repair code had before
@@ -74,6 +75,36 @@ export function allowancesOn(db: Db, repairCodeIds: string[], date: string): Map
   const missing = repairCodeIds.filter((id) => !out.has(id));
   if (missing.length) for (const c of db.select({ id: repairCodes.id, hours: repairCodes.allowedHours }).from(repairCodes).where(inArray(repairCodes.id, missing)).all()) out.set(c.id, c.hours);
   return out;
+}
+
+/**
+ * The model's warranty terms in force on `date`: the row with the latest effective date on or
+ * before it; the model's own columns and component terms when the model never changed.
+ */
+export function modelTermsOn(db: Db, modelId: string, date: string): Omit<UnitTerms, 'basis' | 'basisDate'> | undefined {
+  const row = db
+    .select()
+    .from(modelTerms)
+    .where(and(eq(modelTerms.modelId, modelId), lte(modelTerms.effectiveFrom, date)))
+    .orderBy(desc(modelTerms.effectiveFrom))
+    .get();
+  if (row) {
+    const { partsMonths, laborMonths, capMonthsFromShip, installGraceDays, effectiveFrom } = row;
+    return { effectiveFrom, partsMonths, laborMonths, capMonthsFromShip, installGraceDays, componentTerms: row.componentTerms ?? [] };
+  }
+  const m = db.select().from(models).where(eq(models.id, modelId)).get();
+  if (!m) return undefined;
+  const comps = db.select({ partId: componentTerms.partId, label: componentTerms.label, partsMonths: componentTerms.partsMonths }).from(componentTerms).where(eq(componentTerms.modelId, modelId)).all();
+  return { effectiveFrom: HISTORY_START, partsMonths: m.partsMonths, laborMonths: m.laborMonths, capMonthsFromShip: m.capMonthsFromShip, installGraceDays: m.installGraceDays, componentTerms: comps };
+}
+
+/** A unit's terms: the model's terms in force on its registration date, else its ship date. */
+export function unitTermsOf(db: Db, unit: { modelId: string; shipDate: string; registeredOn: string | null }): UnitTerms {
+  const basis = unit.registeredOn ? 'registration' : 'ship';
+  const basisDate = unit.registeredOn ?? unit.shipDate;
+  const t = modelTermsOn(db, unit.modelId, basisDate);
+  if (!t) throw new Error(`model ${unit.modelId} of a unit is missing`);
+  return { basis, basisDate, ...t };
 }
 
 export function priceHistory(db: Db, partId: string): PriceHistoryItem[] {
@@ -204,4 +235,44 @@ export function listRepairCodes(db: Db, today: string, filter: { id?: string } =
     allowedHours: current.get(c.id) ?? c.allowedHours,
     scheduled: future.filter((f) => f.id === c.id).map(({ id: _i, ...f }) => f),
   }));
+}
+
+// ---------------------------------------------------------------------------- filed claims a back-dated change touches
+
+const FILED = sql`('draft', 'withdrawn')`;
+
+function affected(db: Db, effectiveFrom: string, query: (select: ReturnType<typeof sql>) => ReturnType<typeof sql>): AffectedClaims {
+  const count = (db.get(query(sql`count(distinct c.id) as n`)) as { n: number }).n;
+  const numbers = (db.all(sql`${query(sql`distinct c.number as number`)} order by 1 limit 20`) as { number: string }[]).map((r) => r.number);
+  return { effectiveFrom, count, numbers };
+}
+
+/**
+ * Filed claims whose unit takes the model terms that start on `from` (units of the model shipped,
+ * or registered, on or after `from` and before the next change). Read through units(model_id,
+ * ship_date) and claims(unit_id, repair_date).
+ */
+export function claimsAffectedByModelTerms(db: Db, modelId: string, from: string): AffectedClaims {
+  const next = db.select({ d: modelTerms.effectiveFrom }).from(modelTerms).where(and(eq(modelTerms.modelId, modelId), gt(modelTerms.effectiveFrom, from))).orderBy(asc(modelTerms.effectiveFrom)).get()?.d ?? '9999-12-31';
+  return affected(db, from, (select) =>
+    sql`select ${select} from units u join claims c on c.unit_id = u.id where u.model_id = ${modelId} and coalesce(u.registered_on, u.ship_date) >= ${from} and coalesce(u.registered_on, u.ship_date) < ${next} and c.state not in ${FILED}`,
+  );
+}
+
+/** Filed claims with a line of the part repaired on or after `from`, before the next price (index on claim_part_lines(part_id)). */
+export function claimsAffectedByPrice(db: Db, partId: string, from: string): AffectedClaims {
+  const next = db.select({ d: partPrices.effectiveFrom }).from(partPrices).where(and(eq(partPrices.partId, partId), gt(partPrices.effectiveFrom, from))).orderBy(asc(partPrices.effectiveFrom)).get()?.d ?? '9999-12-31';
+  return affected(db, from, (select) =>
+    sql`select ${select} from claim_part_lines p join claims c on c.id = p.claim_id where p.part_id = ${partId} and c.repair_date >= ${from} and c.repair_date < ${next} and c.state not in ${FILED}`,
+  );
+}
+
+/** Filed claims with a labor line of the repair code repaired on or after `from`, before the next allowance. */
+export function claimsAffectedByAllowance(db: Db, repairCodeId: string, from: string): AffectedClaims {
+  const next =
+    db.select({ d: repairCodeAllowances.effectiveFrom }).from(repairCodeAllowances).where(and(eq(repairCodeAllowances.repairCodeId, repairCodeId), gt(repairCodeAllowances.effectiveFrom, from))).orderBy(asc(repairCodeAllowances.effectiveFrom)).get()?.d ??
+    '9999-12-31';
+  return affected(db, from, (select) =>
+    sql`select ${select} from claim_labor_lines l join claims c on c.id = l.claim_id where l.repair_code_id = ${repairCodeId} and c.repair_date >= ${from} and c.repair_date < ${next} and c.state not in ${FILED}`,
+  );
 }

@@ -1,6 +1,6 @@
 import { and, eq, inArray } from 'drizzle-orm';
 import { tx, type Db } from '../../db/client';
-import { claimReadings, componentTerms, models, partPrices, parts, productFamilies, readingSpecs, repairCodeAllowances, repairCodes } from '../../db/schema/index';
+import { claimReadings, componentTerms, modelTerms, models, partPrices, parts, productFamilies, readingSpecs, repairCodeAllowances, repairCodes } from '../../db/schema/index';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
@@ -21,7 +21,8 @@ import type {
 } from '@shared/schemas/admin';
 import { createModelSchema, createPartSchema, createReadingSpecSchema, createRepairCodeSchema, updateModelSchema } from '@shared/schemas/admin';
 import type { z } from 'zod';
-import { allowanceOn, HISTORY_START, listFamilies, listModels, listParts, listRepairCodes, priceOn } from './catalog.queries';
+import { allowanceOn, claimsAffectedByAllowance, claimsAffectedByModelTerms, claimsAffectedByPrice, HISTORY_START, listFamilies, listModels, listParts, listRepairCodes, modelTermsOn, priceOn } from './catalog.queries';
+import type { AffectedClaims } from '@shared/schemas/admin';
 
 type CreateModel = z.infer<typeof createModelSchema>;
 type UpdateModel = z.infer<typeof updateModelSchema>;
@@ -52,6 +53,15 @@ function checkComponentParts(t: Db, terms: { partId: string }[]): void {
   if (ids.length === 0) return;
   const found = t.select({ id: parts.id }).from(parts).where(inArray(parts.id, ids)).all();
   if (found.length !== ids.length) throw fieldError('componentTerms', 'Choose the components from the parts list.');
+}
+
+/** A change that takes effect before today needs a reason: it changes what filed claims are worth. */
+function requireBackdateReason(from: string, day: string, reason: string | null | undefined, what: string): string | null {
+  if (from >= day) return null;
+  if (!reason || reason.trim() === '') {
+    throw fieldError('reason', `The ${what} takes effect in the past (${from}): give a reason, because it changes filed claims.`);
+  }
+  return reason.trim();
 }
 
 function checkRepairCodes(t: Db, codes: string[] | undefined): void {
@@ -151,28 +161,65 @@ export function createCatalogService(deps: AppDeps) {
       });
       return listModels(db, { id })[0];
     },
+    /**
+     * Warranty terms are effective-dated: a change applies to units shipped (or registered) on or
+     * after its effective date (default today); units already shipped keep theirs. A change in
+     * the past needs a reason, and the answer names the filed claims it touches.
+     */
     updateModel(ctx: RequestContext, id: string, body: UpdateModel, ip: string): ModelItem {
       guard(ctx, 'update');
+      const day = todayFor(db, clock, ctx.user.organisationId);
+      let affectedClaims: AffectedClaims | undefined;
       tx(db, (t) => {
         const row = t.select().from(models).where(eq(models.id, id)).get();
         if (!row) throw new NotFoundError('No such model.');
-        const { componentTerms: comps, ...fields } = body;
-        const next = { ...row, ...Object.fromEntries(Object.entries(fields).filter(([, v]) => v !== undefined)) };
-        if (next.partsMonths > next.capMonthsFromShip || next.laborMonths > next.capMonthsFromShip) throw fieldError('capMonthsFromShip', 'The cap from the ship date must be at least the parts and labor terms.');
+        const { componentTerms: comps, termsEffectiveFrom, reason, partsMonths, laborMonths, capMonthsFromShip, installGraceDays, ...fields } = body;
         if (fields.familyId) requireFamily(t, fields.familyId);
         const changes: Record<string, unknown> = diff(row, fields);
-        if (Object.keys(changes).length) t.update(models).set({ ...fields, updatedAt: now() }).where(eq(models.id, id)).run();
-        if (comps) {
-          checkComponentParts(t, comps);
-          const before = t.select({ partId: componentTerms.partId, label: componentTerms.label, partsMonths: componentTerms.partsMonths }).from(componentTerms).where(eq(componentTerms.modelId, id)).all();
-          t.delete(componentTerms).where(eq(componentTerms.modelId, id)).run();
-          for (const c of comps) t.insert(componentTerms).values({ id: newId(), modelId: id, ...c }).run();
-          if (JSON.stringify(before) !== JSON.stringify(comps)) changes.componentTerms = { from: before, to: comps };
-          if (!Object.keys(fields).some((k) => fields[k as keyof typeof fields] !== undefined)) t.update(models).set({ updatedAt: now() }).where(eq(models.id, id)).run();
+        const termsGiven = partsMonths !== undefined || laborMonths !== undefined || capMonthsFromShip !== undefined || installGraceDays !== undefined || comps !== undefined;
+        if (termsGiven) {
+          const from = termsEffectiveFrom ?? day;
+          const before = modelTermsOn(t, id, from)!;
+          const next = {
+            partsMonths: partsMonths ?? before.partsMonths,
+            laborMonths: laborMonths ?? before.laborMonths,
+            capMonthsFromShip: capMonthsFromShip ?? before.capMonthsFromShip,
+            installGraceDays: installGraceDays ?? before.installGraceDays,
+            componentTerms: comps ?? before.componentTerms,
+          };
+          if (next.partsMonths > next.capMonthsFromShip || next.laborMonths > next.capMonthsFromShip) throw fieldError('capMonthsFromShip', 'The cap from the ship date must be at least the parts and labor terms.');
+          if (comps) checkComponentParts(t, comps);
+          const { effectiveFrom: _f, ...was } = before;
+          if (JSON.stringify(was) !== JSON.stringify(next) || termsEffectiveFrom !== undefined) {
+            const why = requireBackdateReason(from, day, reason, 'change of warranty terms');
+            const hasHistory = t.select({ id: modelTerms.id }).from(modelTerms).where(eq(modelTerms.modelId, id)).get();
+            if (!hasHistory && from > HISTORY_START) {
+              t.insert(modelTerms).values({ id: newId(), modelId: id, effectiveFrom: HISTORY_START, ...was, reason: null, createdBy: ctx.user.id, createdAt: now() }).run();
+            }
+            t.insert(modelTerms)
+              .values({ id: newId(), modelId: id, effectiveFrom: from, ...next, reason: why, createdBy: ctx.user.id, createdAt: now() })
+              .onConflictDoUpdate({ target: [modelTerms.modelId, modelTerms.effectiveFrom], set: { ...next, reason: why, createdBy: ctx.user.id, createdAt: now() } })
+              .run();
+            changes.terms = { from: was, to: next, effectiveFrom: from, ...(why ? { reason: why } : {}) };
+            if (why) {
+              affectedClaims = claimsAffectedByModelTerms(t, id, from);
+              changes.affectedClaims = affectedClaims;
+            }
+          }
         }
-        if (Object.keys(changes).length) audit(t, ctx, body.active === false ? 'catalog.model.retire' : 'catalog.model.update', 'Model', id, ip, changes);
+        if (Object.keys(changes).length === 0) return;
+        // the model's columns and component rows mirror the terms in force today (lists only)
+        const current = modelTermsOn(t, id, day)!;
+        t.update(models)
+          .set({ ...fields, partsMonths: current.partsMonths, laborMonths: current.laborMonths, capMonthsFromShip: current.capMonthsFromShip, installGraceDays: current.installGraceDays, updatedAt: now() })
+          .where(eq(models.id, id))
+          .run();
+        t.delete(componentTerms).where(eq(componentTerms.modelId, id)).run();
+        for (const c of current.componentTerms) t.insert(componentTerms).values({ id: newId(), modelId: id, ...c }).run();
+        audit(t, ctx, body.active === false ? 'catalog.model.retire' : 'catalog.model.update', 'Model', id, ip, changes);
       });
-      return listModels(db, { id })[0];
+      const item = listModels(db, { id })[0];
+      return affectedClaims ? { ...item, affectedClaims } : item;
     },
     createReadingSpec(ctx: RequestContext, modelId: string, body: CreateReadingSpec, ip: string): ReadingSpecItem {
       guard(ctx, 'create');
@@ -235,18 +282,21 @@ export function createCatalogService(deps: AppDeps) {
     updatePart(ctx: RequestContext, id: string, body: UpdatePartBody, ip: string): PartItem {
       guard(ctx, 'update');
       const day = todayFor(db, clock, ctx.user.organisationId);
+      let affectedClaims: AffectedClaims | undefined;
       tx(db, (t) => {
         const row = t.select().from(parts).where(eq(parts.id, id)).get();
         if (!row) throw new NotFoundError('No such part.');
-        const { listPriceCents, priceEffectiveFrom, ...fields } = body;
+        const { listPriceCents, priceEffectiveFrom, reason, ...fields } = body;
         if (fields.familyId) requireFamily(t, fields.familyId);
         const changes: Record<string, unknown> = diff(row, fields);
         if (listPriceCents !== undefined) {
           const from = priceEffectiveFrom ?? day;
           const before = priceOn(t, id, from) as number;
           if (before !== listPriceCents || priceEffectiveFrom !== undefined) {
+            const why = requireBackdateReason(from, day, reason, 'new price');
             recordPrice(t, ctx, row, listPriceCents, from);
-            changes.listPriceCents = { from: before, to: listPriceCents, effectiveFrom: from };
+            changes.listPriceCents = { from: before, to: listPriceCents, effectiveFrom: from, ...(why ? { reason: why } : {}) };
+            if (why) changes.affectedClaims = affectedClaims = claimsAffectedByPrice(t, id, from);
           }
         }
         if (Object.keys(changes).length === 0) return;
@@ -256,7 +306,8 @@ export function createCatalogService(deps: AppDeps) {
           .run();
         audit(t, ctx, fields.active === false ? 'catalog.part.retire' : 'catalog.part.update', 'Part', id, ip, changes);
       });
-      return listParts(db, day, { id })[0];
+      const item = listParts(db, day, { id })[0];
+      return affectedClaims ? { ...item, affectedClaims } : item;
     },
 
     // ------------------------------------------------------------------ repair codes
@@ -279,10 +330,11 @@ export function createCatalogService(deps: AppDeps) {
     updateRepairCode(ctx: RequestContext, id: string, body: UpdateRepairCodeBody, ip: string): RepairCodeItem {
       guard(ctx, 'update');
       const day = todayFor(db, clock, ctx.user.organisationId);
+      let affectedClaims: AffectedClaims | undefined;
       tx(db, (t) => {
         const row = t.select().from(repairCodes).where(eq(repairCodes.id, id)).get();
         if (!row) throw new NotFoundError('No such repair code.');
-        const { allowedHours, allowanceEffectiveFrom, ...rest } = body;
+        const { allowedHours, allowanceEffectiveFrom, reason, ...rest } = body;
         const fields = { ...rest, ...(rest.requiredEvidence ? { requiredEvidence: [...new Set(rest.requiredEvidence)] } : {}) };
         if (fields.familyId) requireFamily(t, fields.familyId);
         const changes: Record<string, unknown> = diff(row, fields);
@@ -290,8 +342,10 @@ export function createCatalogService(deps: AppDeps) {
           const from = allowanceEffectiveFrom ?? day;
           const before = allowanceOn(t, id, from) as number;
           if (before !== allowedHours || allowanceEffectiveFrom !== undefined) {
+            const why = requireBackdateReason(from, day, reason, 'new allowance');
             recordAllowance(t, ctx, row, allowedHours, from);
-            changes.allowedHours = { from: before, to: allowedHours, effectiveFrom: from };
+            changes.allowedHours = { from: before, to: allowedHours, effectiveFrom: from, ...(why ? { reason: why } : {}) };
+            if (why) changes.affectedClaims = affectedClaims = claimsAffectedByAllowance(t, id, from);
           }
         }
         if (Object.keys(changes).length === 0) return;
@@ -301,7 +355,8 @@ export function createCatalogService(deps: AppDeps) {
           .run();
         audit(t, ctx, fields.active === false ? 'catalog.repair_code.retire' : 'catalog.repair_code.update', 'RepairCode', id, ip, changes);
       });
-      return listRepairCodes(db, day, { id })[0];
+      const item = listRepairCodes(db, day, { id })[0];
+      return affectedClaims ? { ...item, affectedClaims } : item;
     },
   };
 }

@@ -22,6 +22,7 @@ import {
   users,
   type Claim,
 } from '../../db/schema/index';
+import { unitTermsOf } from '../admin/catalog.queries';
 import { abilityToSql } from '../../lib/casl-to-sql';
 import { allowancesOn, pricesOn } from '../admin/catalog.queries';
 import { ValidationError } from '../../lib/errors';
@@ -344,6 +345,7 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
           revision: units.revision,
           shipDate: units.shipDate,
           installDate: units.installDate,
+          registeredOn: units.registeredOn,
           modelId: models.id,
           modelNumber: models.modelNumber,
           modelName: models.name,
@@ -540,6 +542,7 @@ export function loadClaimDetail(db: Db, row: Claim): ClaimDetailData {
           shipDate: unit.shipDate,
           installDate: unit.installDate,
           model: { id: unit.modelId, modelNumber: unit.modelNumber, name: unit.modelName, familyId: unit.familyId, familyName: unit.familyName },
+          terms: unitTermsOf(db, unit),
         }
       : null,
     site: site ?? null,

@@ -34,7 +34,7 @@ import { areCompatible } from '@shared/calculations/units';
 import { businessDay, DEFAULT_TIME_ZONE } from '@shared/calculations/business-day';
 import { validateForSubmit, type SubmitFacts, type SubmitValidation } from '@shared/workflow/submit-validation';
 import type { ClaimFacts } from '@shared/workflow/claim-machine';
-import { allowancesOn, pricesOn } from '../admin/catalog.queries';
+import { allowancesOn, pricesOn, unitTermsOf } from '../admin/catalog.queries';
 
 export interface BuildProblem {
   path: string;
@@ -45,7 +45,7 @@ export interface ClaimInputs {
   claim: Claim;
   /** The agency's IANA time zone: its business days (filing date, today) are counted in it. */
   timeZone: string;
-  unit: { id: string; serial: string; shipDate: string; installDate: string | null; modelId: string; familyId: string; familyName: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number } | null;
+  unit: { id: string; serial: string; shipDate: string; installDate: string | null; registeredOn: string | null; modelId: string; familyId: string; familyName: string; partsMonths: number; laborMonths: number; capMonthsFromShip: number; installGraceDays: number } | null;
   site: { latitude: number; longitude: number } | null;
   base: { latitude: number; longitude: number } | null;
   terms: typeof agencyTerms.$inferSelect | null;
@@ -71,6 +71,7 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
           serial: units.serial,
           shipDate: units.shipDate,
           installDate: units.installDate,
+          registeredOn: units.registeredOn,
           modelId: models.id,
           familyId: models.familyId,
           familyName: productFamilies.name,
@@ -98,9 +99,15 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
         .get() ?? null)
     : null;
 
-  const components = unit
-    ? db.select({ partId: componentTerms.partId, partsMonths: componentTerms.partsMonths, label: componentTerms.label }).from(componentTerms).where(eq(componentTerms.modelId, unit.modelId)).all()
-    : [];
+  // the unit's own terms: the model's terms in force when it shipped (or was registered)
+  const unitTerms = unit ? unitTermsOf(db, unit) : null;
+  if (unit && unitTerms) {
+    unit.partsMonths = unitTerms.partsMonths;
+    unit.laborMonths = unitTerms.laborMonths;
+    unit.capMonthsFromShip = unitTerms.capMonthsFromShip;
+    unit.installGraceDays = unitTerms.installGraceDays;
+  }
+  const components = unitTerms ? unitTerms.componentTerms.map(({ partId, partsMonths, label }) => ({ partId, partsMonths, label })) : [];
 
   const labor = db
     .select({

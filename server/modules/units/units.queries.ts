@@ -7,7 +7,7 @@ export function findUnitBySerial(db: Db, serial: string) {
   const base = () =>
     db
       .select({
-        unit: { id: units.id, serial: units.serial, revision: units.revision, shipDate: units.shipDate, installDate: units.installDate },
+        unit: { id: units.id, serial: units.serial, revision: units.revision, shipDate: units.shipDate, installDate: units.installDate, registeredOn: units.registeredOn },
         model: {
           id: models.id,
           modelNumber: models.modelNumber,

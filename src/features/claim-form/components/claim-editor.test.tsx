@@ -51,7 +51,7 @@ function draft(over: Partial<ClaimDetail> = {}): ClaimDetail {
     decidedAt: null,
     paidAt: null,
     reviewerName: null,
-    unit: { id: 'unit-1', serial: 'SN-1', revision: 'A', shipDate: '2025-06-01', installDate: '2025-07-01', model: { id: 'model-1', modelNumber: 'MODEL-1', name: 'Test model', familyId: 'fam-1', familyName: 'Test family' } },
+    unit: { id: 'unit-1', serial: 'SN-1', revision: 'A', shipDate: '2025-06-01', installDate: '2025-07-01', model: { id: 'model-1', modelNumber: 'MODEL-1', name: 'Test model', familyId: 'fam-1', familyName: 'Test family' }, terms: { basis: 'ship', basisDate: '2025-06-01', effectiveFrom: '0001-01-01', partsMonths: 12, laborMonths: 12, capMonthsFromShip: 18, installGraceDays: 90, componentTerms: [] } },
     site: null,
     laborLines: [{ id: 'l-1', position: 1, repairCodeId: 'rc-1', repairCode: 'RC-10', description: 'Test repair', allowedHours: 1, hoursWorked: 1, overtime: false, note: '', approvedHours: null, adjustmentReason: null, approvedAmountCents: null }],
     travel: null,

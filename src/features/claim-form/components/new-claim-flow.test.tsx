@@ -14,6 +14,7 @@ const lookup: UnitLookup = {
   on: '2026-06-01',
   coverage: computeCoverage({ failureDate: '2026-06-01', shipDate: '2026-01-05', installDate: '2026-01-20', terms: { partsMonths: 24, laborMonths: 12, capMonthsFromShip: 30, installGraceDays: 90 } }),
   priorClaims: [],
+  terms: { basis: 'ship', basisDate: '2026-01-05', effectiveFrom: '0001-01-01', partsMonths: 24, laborMonths: 12, capMonthsFromShip: 30, installGraceDays: 90, componentTerms: [] },
 };
 
 describe('NewClaimFlow', () => {

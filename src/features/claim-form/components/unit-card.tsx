@@ -6,9 +6,17 @@ import { paths } from '@/config/paths';
 import { formatDate } from '@/lib/format';
 import { CoveragePanel } from './coverage-panel';
 
+/** The unit's own terms in words: those in force when it shipped or was registered. */
+export function unitTermsText(terms: UnitLookup['terms']): string {
+  const parts = [`Parts ${terms.partsMonths} months, labor ${terms.laborMonths} months, never past ${terms.capMonthsFromShip} months from shipping`];
+  for (const c of terms.componentTerms) parts.push(`${c.label} ${c.partsMonths} months (parts only)`);
+  const since = terms.effectiveFrom === '0001-01-01' ? 'the model\'s terms' : `the model's terms from ${formatDate(terms.effectiveFrom)}`;
+  return `${parts.join('; ')}. Fixed by ${since}, in force when the unit ${terms.basis === 'registration' ? 'was registered' : 'shipped'} (${formatDate(terms.basisDate)}).`;
+}
+
 /** What the serial found: model, revision, site, dates, coverage on the day, earlier claims. */
 export function UnitCard({ lookup }: { lookup: UnitLookup }) {
-  const { unit, model, family, site, coverage, on, priorClaims } = lookup;
+  const { unit, model, family, site, coverage, on, priorClaims, terms } = lookup;
   return (
     <div className="space-y-4" aria-label={`Unit ${unit.serial}`} role="group">
       <div>
@@ -26,7 +34,7 @@ export function UnitCard({ lookup }: { lookup: UnitLookup }) {
           { label: 'Site', value: site ? `${site.name}, ${site.addressLine}, ${site.city} ${site.region} ${site.postalCode}` : 'No site on record' },
           { label: 'Installed', value: unit.installDate ? formatDate(unit.installDate) : `Not recorded (ship date plus ${model.installGraceDays} days stands in)` },
           { label: 'Shipped', value: formatDate(unit.shipDate) },
-          { label: 'Warranty terms', value: `Parts ${model.partsMonths} months, labor ${model.laborMonths} months, never past ${model.capMonthsFromShip} months from shipping` },
+          { label: 'Warranty terms', value: unitTermsText(terms) },
         ]}
       />
       <CoveragePanel coverage={coverage} on={on} />

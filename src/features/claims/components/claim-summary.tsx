@@ -41,6 +41,10 @@ export function ClaimUnitCard({ claim }: { claim: ClaimDetail }) {
               { label: 'Revision', value: u.revision },
               { label: 'Shipped', value: formatDate(u.shipDate) },
               { label: 'Installed', value: u.installDate ? formatDate(u.installDate) : 'Not recorded' },
+              {
+                label: 'Warranty terms',
+                value: `Parts ${u.terms.partsMonths} months, labor ${u.terms.laborMonths} months, never past ${u.terms.capMonthsFromShip} months from shipping${u.terms.componentTerms.map((c) => `; ${c.label} ${c.partsMonths} months (parts only)`).join('')}. Those in force when the unit ${u.terms.basis === 'registration' ? 'was registered' : 'shipped'} (${formatDate(u.terms.basisDate)}).`,
+              },
             ]}
           />
         ) : (
