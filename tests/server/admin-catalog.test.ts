@@ -108,8 +108,14 @@ describe('catalogue administration', () => {
     const code = t.db.select().from(repairCodes).where(eq(repairCodes.code, 'ST-100')).get()!;
     expect(allowanceOn(t.db, code.id, '2026-01-01')).toBe(1.5);
 
-    const r = await mfr.patch(`/api/admin/repair-codes/${code.id}`).send({ allowedHours: 2.25, allowanceEffectiveFrom: '2026-06-01' });
+    // effective before today: a reason is required, and the answer names the filed claims it touches
+    const silent = await mfr.patch(`/api/admin/repair-codes/${code.id}`).send({ allowedHours: 2.25, allowanceEffectiveFrom: '2026-06-01' });
+    expect(silent.status).toBe(400);
+    expect(silent.body.error.fields.reason).toMatch(/takes effect in the past \(2026-06-01\)/);
+    const r = await mfr.patch(`/api/admin/repair-codes/${code.id}`).send({ allowedHours: 2.25, allowanceEffectiveFrom: '2026-06-01', reason: 'Labor guide revision' });
     expect(r.status).toBe(200);
+    expect(r.body.affectedClaims).toMatchObject({ effectiveFrom: '2026-06-01' });
+    expect(r.body.affectedClaims.count).toBe(r.body.affectedClaims.numbers.length);
     expect(r.body.allowedHours).toBe(2.25);
     expect(allowanceOn(t.db, code.id, '2026-05-31')).toBe(1.5);
     expect(allowanceOn(t.db, code.id, '2026-06-01')).toBe(2.25);

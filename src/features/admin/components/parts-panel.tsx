@@ -1,3 +1,4 @@
+import type { AffectedClaims } from '@shared/schemas/admin';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -151,6 +152,7 @@ function CreatePartForm({ onDone }: { onDone: () => void }) {
 function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) {
   const update = useUpdatePart();
   const history = usePriceHistory(part.id);
+  const [affected, setAffected] = useState<AffectedClaims | null>(null);
   const [formError, setFormError] = useState<string | null>(null);
   const { register, control, handleSubmit, setError, formState } = useForm<z.input<typeof updatePartSchema>, unknown, z.output<typeof updatePartSchema>>({
     resolver: zodResolver(updatePartSchema),
@@ -168,11 +170,20 @@ function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) 
     const body = v.listPriceCents === part.listPriceCents && !formState.dirtyFields.priceEffectiveFrom ? { ...v, listPriceCents: undefined, priceEffectiveFrom: undefined } : v;
     update.mutate(
       { id: part.id, body },
-      { onSuccess: onDone, onError: (e) => setFormError(applyServerErrors(e, setError, ['description', 'familyId', 'listPriceCents', 'priceEffectiveFrom'])) },
+      { onSuccess: (item) => (item.affectedClaims ? setAffected(item.affectedClaims) : onDone()), onError: (e) => setFormError(applyServerErrors(e, setError, ['description', 'familyId', 'listPriceCents', 'priceEffectiveFrom', 'reason'])) },
     );
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
+      {affected && (
+        <Alert tone="info">
+          Saved. The price takes effect from {affected.effectiveFrom} and changes {affected.count} filed {affected.count === 1 ? 'claim' : 'claims'}
+          {affected.numbers.length > 0 ? `: ${affected.numbers.join(', ')}${affected.count > affected.numbers.length ? ' and more' : ''}` : ''}.{' '}
+          <button type="button" className="underline" onClick={onDone}>
+            Close
+          </button>
+        </Alert>
+      )}
       {formError && <Alert tone="error">{formError}</Alert>}
       <Field label="Description" error={errors.description?.message}>
         {(p) => <Input {...p} {...register('description')} />}
@@ -190,6 +201,9 @@ function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) 
         </Field>
         <Field label="Applies to repairs from" hint="Claims repaired earlier keep the old price" error={errors.priceEffectiveFrom?.message}>
           {(p) => <Input {...p} type="date" {...register('priceEffectiveFrom')} />}
+        </Field>
+        <Field label="Reason" hint="Needed when the date is in the past: filed claims change" error={errors.reason?.message}>
+          {(p) => <Input {...p} {...register('reason')} />}
         </Field>
       </div>
       {history.data && history.data.length > 0 && (

@@ -1,3 +1,4 @@
+import type { AffectedClaims } from '@shared/schemas/admin';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -157,6 +158,7 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
   const families = useFamilies();
   const history = useAllowanceHistory(code.id);
   const update = useUpdateRepairCode();
+  const [affected, setAffected] = useState<AffectedClaims | null>(null);
   const [formError, setFormError] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState } = useForm<z.input<typeof updateRepairCodeSchema>, unknown, z.output<typeof updateRepairCodeSchema>>({
     resolver: zodResolver(updateRepairCodeSchema),
@@ -175,11 +177,20 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
     const body = v.allowedHours === code.allowedHours && !formState.dirtyFields.allowanceEffectiveFrom ? { ...v, allowedHours: undefined, allowanceEffectiveFrom: undefined } : v;
     update.mutate(
       { id: code.id, body },
-      { onSuccess: onDone, onError: (e) => setFormError(applyServerErrors(e, setError, ['familyId', 'description', 'allowedHours', 'allowanceEffectiveFrom', 'requiredEvidence'])) },
+      { onSuccess: (item) => (item.affectedClaims ? setAffected(item.affectedClaims) : onDone()), onError: (e) => setFormError(applyServerErrors(e, setError, ['familyId', 'description', 'allowedHours', 'allowanceEffectiveFrom', 'requiredEvidence', 'reason'])) },
     );
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
+      {affected && (
+        <Alert tone="info">
+          Saved. The allowance takes effect from {affected.effectiveFrom} and changes {affected.count} filed {affected.count === 1 ? 'claim' : 'claims'}
+          {affected.numbers.length > 0 ? `: ${affected.numbers.join(', ')}${affected.count > affected.numbers.length ? ' and more' : ''}` : ''}.{' '}
+          <button type="button" className="underline" onClick={onDone}>
+            Close
+          </button>
+        </Alert>
+      )}
       {formError && <Alert tone="error">{formError}</Alert>}
       <Field label="Repair" error={errors.description?.message}>
         {(p) => <Input {...p} {...register('description')} />}
@@ -201,6 +212,9 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
         </Field>
         <Field label="Applies to repairs from" hint="Claims repaired earlier keep the old allowance" error={errors.allowanceEffectiveFrom?.message}>
           {(p) => <Input {...p} type="date" {...register('allowanceEffectiveFrom')} />}
+        </Field>
+        <Field label="Reason" hint="Needed when the date is in the past: filed claims change" error={errors.reason?.message}>
+          {(p) => <Input {...p} {...register('reason')} />}
         </Field>
       </div>
       {history.data && history.data.length > 0 && (
