@@ -116,6 +116,8 @@ test('a claim is filed, returned with a reason, fixed, resubmitted, adjusted and
   await page.getByRole('button', { name: `Start review of ${number}` }).click();
   await expect(page).toHaveURL(claimUrl);
   await expect(page.getByText(/^In review with /)).toBeVisible();
+  await expect(page.getByRole('region', { name: 'Other claims on this unit' })).toBeVisible();
+  await expect(page.getByRole('region', { name: 'Changed since the last submission' })).toHaveCount(0);
   await page.getByRole('group', { name: 'Actions' }).getByRole('button', { name: 'Return to agency' }).click();
   const ret = page.getByRole('form', { name: 'Return to the agency' });
   await ret.getByRole('button', { name: 'Return to agency' }).click();
@@ -151,6 +153,12 @@ test('a claim is filed, returned with a reason, fixed, resubmitted, adjusted and
   await page.goto('/review');
   await page.getByRole('button', { name: `Start review of ${number}` }).click();
   await expect(page).toHaveURL(claimUrl);
+  // what the technician changed since the first submission, field by field, and the unit's other claims
+  const changes = page.getByRole('region', { name: 'Changed since the last submission' });
+  await expect(changes.getByRole('row', { name: /^Cause\b/ })).toContainText('Front left leveling foot worn through; surface 0.8 in low at the front.');
+  await expect(changes.getByRole('row', { name: /^Correction\b/ })).toContainText('re-leveled the stand and set the cooking height to 36.1 in.');
+  await expect(changes.getByRole('row', { name: /^Complaint\b/ })).toHaveCount(0);
+  await expect(page.getByRole('region', { name: 'Other claims on this unit' })).toBeVisible();
   const review = page.getByRole('region', { name: 'Review the lines' });
   await review.getByRole('button', { name: new RegExp(`^Adjust ${REPAIR_CODE}`) }).click();
   const adjusting = review.getByRole('group', { name: new RegExp(`^Adjusting ${REPAIR_CODE}`) });

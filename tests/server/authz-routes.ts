@@ -607,6 +607,20 @@ export const routes: RouteCase[] = [
   },
   {
     method: 'GET',
+    route: '/api/claims/:id/unit-claims',
+    ids: { id: 'claim' },
+    build: ({ f }) => ({ params: { id: f.claimA.approved } }),
+    expect: x(401, OK, OK, 404, OK, OK, 404),
+  },
+  {
+    method: 'GET',
+    route: '/api/claims/:id/changes',
+    ids: { id: 'claim' },
+    build: ({ f }) => ({ params: { id: f.claimA.approved } }),
+    expect: x(401, OK, OK, 404, OK, OK, 404),
+  },
+  {
+    method: 'GET',
     route: '/api/claims/:id/valuation-input',
     ids: { id: 'claim' },
     build: ({ f }) => ({ params: { id: f.claimA.approved } }),

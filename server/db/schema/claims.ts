@@ -204,6 +204,8 @@ export const claimEvents = sqliteTable(
     toState: text('to_state'),
     reason: text('reason'),
     comment: text('comment'),
+    /** On submit events: what the claim said at that submission (labelled fields), to show a resubmission's changes. */
+    snapshot: text('snapshot', { mode: 'json' }).$type<Record<string, string>>(),
     at: text('at').notNull(),
   },
   (t) => [index('claim_events_claim_idx').on(t.claimId, t.at)],

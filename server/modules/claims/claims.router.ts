@@ -26,6 +26,14 @@ export function claimsRouter(deps: AppDeps): Router {
     res.json(service.get(actor(req), req.params.id));
   });
 
+  r.get('/:id/unit-claims', (req, res) => {
+    res.json(service.unitClaims(actor(req), req.params.id));
+  });
+
+  r.get('/:id/changes', (req, res) => {
+    res.json(service.submissionChanges(actor(req), req.params.id));
+  });
+
   r.patch('/:id', (req, res) => {
     res.json(service.update(actor(req), req.params.id, parseBody(updateClaimSchema, req.body)));
   });

@@ -38,7 +38,10 @@ import { actionToEvent, allowedEvents, editableStates, eventsFromState, isEditab
 import { isReasonFor, reasonCodesFor, reasonLabel } from '@shared/workflow/reason-codes';
 import { problemsAsFields } from '@shared/workflow/submit-validation';
 import type { AdjustmentsInput, CommentInput, TakeOverInput, TransitionInput } from '@shared/workflow/workflow-schemas';
-import { claimSubject, findReadableClaim, listClaims, loadClaimDetail, type ClaimListPage } from './claims.queries';
+import { claimSubject, findReadableClaim, listClaims, listClaimsWhere, loadClaimDetail, type ClaimListPage } from './claims.queries';
+import { diffSnapshots, submissionSnapshot, type SubmissionSnapshot } from '@shared/workflow/submission-diff';
+import type { ClaimListItem } from '@shared/schemas/claim';
+import type { SubmissionChanges } from '@shared/schemas/claim-history';
 import { evaluateClaim, loadClaimInputs, valuationInputOf, valueFromInputs, type ClaimInputs } from './valuation.builder';
 import type { Valuation } from '@shared/calculations/valuation';
 import { claimLink, queueMoveMail, queueReviewHandMail } from './claims.mail';
@@ -129,6 +132,33 @@ export function createClaimsService(deps: AppDeps) {
 
   function get(a: Actor, id: string): ClaimDetail {
     return detailOf(a, readable(a, id));
+  }
+
+  /**
+   * The other claims on this claim's unit that the user may read (every agency for the
+   * manufacturer's reviewers), newest repair first: scoped by the CASL rules in SQL and served
+   * by the (unit_id, repair_date) index.
+   */
+  function unitClaims(a: Actor, id: string): { items: ClaimListItem[] } {
+    const row = readable(a, id);
+    if (!row.unitId) return { items: [] };
+    return { items: listClaimsWhere(db, a.ctx.ability, and(eq(claims.unitId, row.unitId), ne(claims.id, row.id)), { order: 'newest_repair', limit: 50 }) };
+  }
+
+  /** What changed between the last two submissions of the claim (field, before, after); empty before a resubmission. */
+  function submissionChanges(a: Actor, id: string): SubmissionChanges {
+    const row = readable(a, id);
+    const last = db
+      .select({ at: claimEvents.at, snapshot: claimEvents.snapshot })
+      .from(claimEvents)
+      .where(and(eq(claimEvents.claimId, row.id), eq(claimEvents.type, 'submit')))
+      .orderBy(desc(claimEvents.at), desc(sql`${claimEvents}.rowid`))
+      .limit(2)
+      .all();
+    const [latest, previous] = last;
+    if (!latest || !previous) return { submissions: last.length, previousAt: null, latestAt: latest?.at ?? null, changes: [] };
+    if (!latest.snapshot || !previous.snapshot) return { submissions: last.length, previousAt: previous.at, latestAt: latest.at, changes: [], unrecorded: true };
+    return { submissions: last.length, previousAt: previous.at, latestAt: latest.at, changes: diffSnapshots(previous.snapshot as SubmissionSnapshot, latest.snapshot as SubmissionSnapshot) };
   }
 
   /**
@@ -369,6 +399,8 @@ export function createClaimsService(deps: AppDeps) {
     }
 
     const evaluation = evaluateClaim(db, row, today());
+    // what the claim says at this submission, kept with the submit event for the next one's diff
+    const snapshot = type === 'SUBMIT' ? submissionSnapshot(loadClaimDetail(db, row)) : null;
     if (type === 'SUBMIT' && !evaluation.validation.ok) {
       audit(a, auditAction, id, 'failure', { ...detail, problems: evaluation.validation.problems.map((p) => p.path) });
       throw new ValidationError('The claim is not ready to submit.', problemsAsFields(evaluation.validation.problems));
@@ -458,6 +490,7 @@ export function createClaimsService(deps: AppDeps) {
             toState: to,
             reason,
             comment: confirming ? `Confirms the first approval by ${confirming}.` : comment,
+            snapshot,
             at: now,
           })
           .run();
@@ -702,7 +735,7 @@ export function createClaimsService(deps: AppDeps) {
     return { id: commentId, body: body.body, createdAt: now, authorName: user.name, authorOrganisation: org?.name ?? '' };
   }
 
-  return { list, get, create, update, transition, adjust, comment, valuation, valuationBasis, takeOver };
+  return { list, get, unitClaims, submissionChanges, create, update, transition, adjust, comment, valuation, valuationBasis, takeOver };
 }
 
 export type ClaimsService = ReturnType<typeof createClaimsService>;

@@ -24,6 +24,7 @@ import { ValuationBreakdown } from '@/features/claims/components/valuation-break
 import { PartReturnsPanel } from '@/features/part-returns/components/part-returns-panel';
 import { AdjustmentsPanel } from '@/features/review/components/adjustments-panel';
 import { TakeOverPanel } from '@/features/review/components/take-over-panel';
+import { SubmissionChangesPanel, UnitClaimsPanel } from '@/features/review/components/claim-history-panels';
 import { ClaimActivity } from '@/features/comments/components/claim-activity';
 import { EvidencePanel } from '@/features/evidence/components/evidence-panel';
 import { ReadingsPanel } from '@/features/evidence/components/readings-panel';
@@ -186,6 +187,7 @@ export function ClaimRoute() {
         <div className="min-w-0 space-y-5">
           {c.state === 'in_review' && c.canTakeOver && <TakeOverPanel claim={c} />}
           {c.state === 'in_review' && may('adjust') && !c.canTakeOver && <AdjustmentsPanel claim={c} valuation={valuation.data} />}
+          <SubmissionChangesPanel claim={c} />
           <ClaimStory claim={c} />
           <ClaimLines claim={c} valuation={valuation.data} />
           <PartReturnsPanel claimId={c.id} enabled={(c.state === 'approved' || c.state === 'paid') && c.partLines.some((p) => p.returnStatus !== 'not_required')} />
@@ -195,6 +197,7 @@ export function ClaimRoute() {
         </div>
         <div className="min-w-0 space-y-5">
           <ClaimUnitCard claim={c} />
+          <UnitClaimsPanel claim={c} />
           <ClaimSiteCard claim={c} />
           <ClaimDatesCard claim={c} />
           <ClaimActivity claim={c} canComment={may('comment')} />

@@ -8,4 +8,6 @@ export const claimKeys = {
   details: () => [...claimKeys.all, 'detail'] as const,
   detail: (id: string) => [...claimKeys.details(), id] as const,
   valuation: (id: string) => [...claimKeys.detail(id), 'valuation'] as const,
+  unitClaims: (id: string) => [...claimKeys.detail(id), 'unit-claims'] as const,
+  changes: (id: string) => [...claimKeys.detail(id), 'changes'] as const,
 };

@@ -1,0 +1,1 @@
+ALTER TABLE `claim_events` ADD `snapshot` text;
