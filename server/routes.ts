@@ -1,6 +1,8 @@
 import type { Router } from 'express';
 import type { AppDeps } from './lib/deps';
 import { authRouter } from './modules/auth/auth.router';
+import { createSecondFactorService } from './modules/second-factor/second-factor.service';
+import { accountSecurityRouter } from './modules/second-factor/second-factor.router';
 import { claimsRouter } from './modules/claims/claims.router';
 import { unitsRouter } from './modules/units/units.router';
 import { catalogRouter } from './modules/catalog/catalog.router';
@@ -21,7 +23,10 @@ import { exportsRouter } from './modules/exports/exports.router';
  * compare the routes Express knows with the routes its table covers.
  */
 export function mountApi(api: Router, deps: AppDeps): void {
-  api.use('/auth', authRouter(deps, { limits: deps.authLimits }));
+  // One second-factor service (and so one set of code-guess counters) for sign-in, step-up and the account page.
+  const secondFactor = createSecondFactorService(deps);
+  api.use('/auth', authRouter(deps, { limits: deps.authLimits, secondFactor }));
+  api.use('/account/security', accountSecurityRouter(deps, secondFactor));
   api.use('/claims', claimsRouter(deps));
   api.use(attachmentsRouter(deps));
   api.use(evidenceChangesRouter(deps));

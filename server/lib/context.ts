@@ -5,6 +5,10 @@ import { UnauthenticatedError } from './errors';
 export interface RequestContext {
   user: SessionUser;
   ability: AppAbility;
+  /** When the session last proved who the user is (sign-in, second factor or step-up), UNIX seconds. */
+  authTime?: number;
+  /** When this session signed in, UNIX seconds. */
+  signInTime?: number;
 }
 
 declare module 'express-serve-static-core' {

@@ -48,9 +48,10 @@ export function authenticate(deps: { db: Db; tokens: SessionTokens; clock: Clock
       organisationId: row.organisationId,
       organisationKind: row.organisationKind,
     };
-    req.ctx = { user, ability: defineAbilityFor(user) };
+    req.ctx = { user, ability: defineAbilityFor(user), authTime: claims.la, signInTime: claims.at };
     if (now - claims.iat >= 60) {
-      setSessionCookie(res, await deps.tokens.issue(row.id, row.sessionVersion, claims.at, now, row.role), deps.secureCookies);
+      // The re-issued token keeps both times: sliding the idle limit is not a new authentication.
+      setSessionCookie(res, await deps.tokens.issue(row.id, row.sessionVersion, claims.at, now, row.role, claims.la), deps.secureCookies);
     }
     next();
   };

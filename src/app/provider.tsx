@@ -3,6 +3,7 @@ import { QueryClientProvider, type QueryClient } from '@tanstack/react-query';
 import { SessionAbilityProvider } from '@/lib/ability';
 import { OrganisationTimeZoneProvider } from '@/lib/business-day';
 import { useSession } from '@/features/auth/api/get-me';
+import { StepUpDialog } from '@/features/auth/components/step-up-dialog';
 
 function SessionAbility({ children }: { children: ReactNode }) {
   const session = useSession();
@@ -18,6 +19,7 @@ export function AppProvider({ queryClient, children }: { queryClient: QueryClien
   return (
     <QueryClientProvider client={queryClient}>
       <SessionAbility>{children}</SessionAbility>
+      <StepUpDialog />
     </QueryClientProvider>
   );
 }

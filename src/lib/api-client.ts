@@ -97,10 +97,35 @@ async function toApiError(response: Response): Promise<ApiError> {
 }
 
 /**
+ * Step-up: when the server answers 401 `step_up_required` (a sensitive change and no sign-in
+ * within 5 minutes), the registered handler asks the user to confirm it is them; the request is
+ * then sent once more. The handler rejects when the user cancels, and the first error stands.
+ */
+type StepUpHandler = () => Promise<void>;
+let stepUpHandler: StepUpHandler | null = null;
+export function setStepUpHandler(handler: StepUpHandler | null): void {
+  stepUpHandler = handler;
+}
+
+/**
  * The one way the client talks to /api: same-origin cookies, JSON both ways, and any
  * answer that is not ok thrown as an ApiError carrying status, code, message and fields.
  */
 export async function apiRequest<T>(path: string, options: RequestOptions = {}): Promise<T> {
+  try {
+    return await sendRequest<T>(path, options);
+  } catch (e) {
+    if (!(e instanceof ApiError) || e.code !== 'step_up_required' || !stepUpHandler) throw e;
+    try {
+      await stepUpHandler();
+    } catch {
+      throw e;
+    }
+    return sendRequest<T>(path, options);
+  }
+}
+
+async function sendRequest<T>(path: string, options: RequestOptions): Promise<T> {
   const { method = 'GET', body, query, signal, idempotencyKey } = options;
   const headers: Record<string, string> = { Accept: 'application/json' };
   if (body !== undefined) headers['Content-Type'] = 'application/json';
@@ -133,6 +158,7 @@ export const api = {
   get: <T>(path: string, query?: Record<string, QueryValue>, signal?: AbortSignal) => apiRequest<T>(path, { query, signal }),
   post: <T>(path: string, body?: unknown, opts: { idempotencyKey?: string } = {}) => apiRequest<T>(path, { method: 'POST', body, ...opts }),
   patch: <T>(path: string, body?: unknown) => apiRequest<T>(path, { method: 'PATCH', body }),
+  put: <T>(path: string, body?: unknown) => apiRequest<T>(path, { method: 'PUT', body }),
   delete: <T>(path: string) => apiRequest<T>(path, { method: 'DELETE' }),
 };
 

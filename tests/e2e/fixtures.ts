@@ -1,4 +1,8 @@
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import Database from 'better-sqlite3';
 import AxeBuilder from '@axe-core/playwright';
+import { totpCodeFor } from '../factories/second-factor';
 import { test as base, expect, type APIRequestContext, type Browser, type BrowserContext, type Page } from '@playwright/test';
 
 export { expect };
@@ -202,13 +206,47 @@ export const demoRoles: DemoRole[] = [
   { key: 'manufacturer admin', email: 'admin@larkfield.test', organisation: 'Larkfield Cookline Co.', kind: 'manufacturer', readsClaims: false },
 ];
 
-/** Signs in through the form, as a person would, and waits until the app has left the sign-in page. */
+/** Demo accounts whose role needs a second factor: the seed gives them an authenticator secret. */
+export const accountsWithCode = new Set(['accounts@larkfield.test', 'admin@larkfield.test']);
+
+/** The database of the app under test (tests/e2e/start-server.ts puts it there). */
+export const e2eDatabasePath = join(tmpdir(), `fieldproof-e2e-${process.env.E2E_PORT ?? 3210}`, 'e2e.sqlite');
+
+/**
+ * The current authenticator code of a seeded account, computed from its secret in the app's
+ * database as `npm run demo:code` does. Each code works once: when the codes of this moment
+ * were all used by earlier sign-ins, it waits for the next 30-second step, as a person would.
+ */
+export async function authenticatorCode(email: string): Promise<string> {
+  for (let attempt = 0; ; attempt++) {
+    const db = new Database(e2eDatabasePath, { readonly: true, fileMustExist: true });
+    try {
+      return totpCodeFor(db, email);
+    } catch (e) {
+      if (attempt >= 8) throw e;
+    } finally {
+      db.close();
+    }
+    await new Promise((r) => setTimeout(r, 5_000));
+  }
+}
+
+/** Types the authenticator code into the sign-in's second step. */
+export async function enterAuthenticatorCode(page: Page, email: string): Promise<void> {
+  const form = page.getByRole('form', { name: 'Second factor' });
+  await expect(form).toBeVisible();
+  await form.getByLabel('Authenticator code').fill(await authenticatorCode(email));
+  await form.getByRole('button', { name: 'Verify' }).click();
+}
+
+/** Signs in through the form, as a person would (with the authenticator code where the account has one), and waits until the app has left the sign-in page. */
 export async function signIn(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
   await page.goto('/sign-in');
   const form = page.getByRole('form', { name: 'Sign in' });
   await form.getByLabel('E-mail').fill(email);
   await form.getByLabel('Password', { exact: true }).fill(password);
   await form.getByRole('button', { name: 'Sign in' }).click();
+  if (accountsWithCode.has(email)) await enterAuthenticatorCode(page, email);
   await expect(page).not.toHaveURL(/\/sign-in/);
 }
 

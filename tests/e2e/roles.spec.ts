@@ -1,6 +1,6 @@
 import { request as apiRequest, type APIRequestContext } from '@playwright/test';
 import { test, expect } from './fixtures';
-import { apiClaimNumbers, demoRoles, DEMO_PASSWORD, signIn, signOut } from './fixtures';
+import { apiClaimNumbers, authenticatorCode, demoRoles, DEMO_PASSWORD, signIn, signOut } from './fixtures';
 
 /** What each role may list, read from the API as that role (the server scopes the list in SQL). */
 interface Visible {
@@ -15,6 +15,10 @@ async function signedInApi(baseURL: string, email: string): Promise<APIRequestCo
   const ctx = await apiRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
   const res = await ctx.post('/api/auth/sign-in', { data: { email, password: DEMO_PASSWORD } });
   expect(res.status(), `API sign-in as ${email}`).toBe(200);
+  if ((await res.json()).secondFactor) {
+    const done = await ctx.post('/api/auth/second-factor/totp', { data: { code: await authenticatorCode(email) } });
+    expect(done.status(), `second factor of ${email}`).toBe(200);
+  }
   return ctx;
 }
 

@@ -10,6 +10,7 @@ import { MailSink } from '../../server/lib/mail/sink';
 import { smtpMailer } from '../../server/lib/mail/mailer';
 import { seedDemo } from '../../server/db/seed/demo';
 import type { Clock } from '../../server/lib/clock';
+import { totpCodeFor } from './second-factor';
 
 export const DEMO_PASSWORD = 'fieldproof-demo';
 
@@ -95,6 +96,8 @@ export async function makeTestApp(opts: { seed?: boolean; clock?: Clock; env?: P
       const agent = request.agent(app);
       const res = await agent.post('/api/auth/sign-in').set('Origin', 'http://localhost:3000').send({ email, password });
       if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);
+      const second = res.body?.secondFactor as { purpose: 'verify' | 'enrol' } | undefined;
+      if (second) await completeSecondFactor(agent, db, email, second.purpose, (opts.clock ?? { now: () => new Date() }).now().getTime());
       return agent;
     },
     async close() {
@@ -104,6 +107,25 @@ export async function makeTestApp(opts: { seed?: boolean; clock?: Clock; env?: P
       rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+/**
+ * Completes the second-factor step of a sign-in as a person with an authenticator app would:
+ * the code is computed from the secret in the database (seeded, or the one enrolment shows).
+ */
+export async function completeSecondFactor(agent: ReturnType<typeof request.agent>, db: Db, email: string, purpose: 'verify' | 'enrol', nowMs: number): Promise<void> {
+  const origin = 'http://localhost:3000';
+  if (purpose === 'enrol') {
+    const setup = await agent.post('/api/auth/second-factor/enrol/totp').set('Origin', origin).send({});
+    if (setup.status !== 200) throw new Error(`TOTP enrolment of ${email} failed: ${setup.status} ${JSON.stringify(setup.body)}`);
+  }
+  // Tests sign the same person in many times within one 30-second step (often on a stopped clock);
+  // the helper stands for a fresh code each time. Refusing a used code is tested on its own.
+  db.$client.prepare('update totp_credentials set last_used_step = null where user_id = (select id from users where email = ?)').run(email);
+  const code = totpCodeFor(db.$client, email, nowMs);
+  const path = purpose === 'enrol' ? '/api/auth/second-factor/enrol/totp/confirm' : '/api/auth/second-factor/totp';
+  const done = await agent.post(path).set('Origin', origin).send({ code });
+  if (done.status !== 200) throw new Error(`second factor of ${email} failed: ${done.status} ${JSON.stringify(done.body)}`);
 }
 
 /** Waits until the dispatcher has flushed the outbox into the sink. */

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD, demoAccounts, TestClock, type TestApp } from '../factories/test-app';
+import { totpCodeFor } from '../factories/second-factor';
 import { makeFixtures, makeTableApp, ORIGIN, type Fixtures } from './authz-routes';
 
 // The security audit trail (OWASP ASVS 5.0 16.2.1 each entry says when, who, where, what and the
@@ -184,15 +185,23 @@ describe('audit trail', () => {
 
   it('no row holds a password, a token, a session cookie or a hash', async () => {
     // Sessions issued during the test: their cookie values must not be logged either.
-    const signIn = await (await f.freshAgent('anonymous')).post('/api/auth/sign-in').set('Origin', ORIGIN).send({ email: demoAccounts.accountant, password: DEMO_PASSWORD });
-    const session = String(signIn.headers['set-cookie']?.[0] ?? '').split(';')[0].split('=')[1];
+    const anon = await f.freshAgent('anonymous');
+    const signIn = await anon.post('/api/auth/sign-in').set('Origin', ORIGIN).send({ email: demoAccounts.accountant, password: DEMO_PASSWORD });
+    const cookieValue = (res: { headers: Record<string, unknown> }, name: string) =>
+      String(([] as string[]).concat((res.headers['set-cookie'] as string[]) ?? []).find((c) => c.startsWith(`${name}=`) && !c.startsWith(`${name}=;`)) ?? '').split(';')[0].split('=')[1] ?? '';
+    const pending = cookieValue(signIn, 'fp_pending');
+    const code = totpCodeFor(t.db.$client, demoAccounts.accountant, t.deps.clock.now().getTime());
+    const done = await anon.post('/api/auth/second-factor/totp').set('Origin', ORIGIN).send({ code });
+    const session = cookieValue(done, 'fp_session');
+    expect(pending.length).toBeGreaterThan(20);
     expect(session.length).toBeGreaterThan(20);
-    secrets.push(session);
+    secrets.push(session, pending, ...(t.db.$client.prepare('select secret from totp_credentials').pluck().all() as string[]));
     const db = t.db.$client;
     const hashes = [
       ...(db.prepare('select password_hash as h from users where password_hash is not null').all() as Array<{ h: string }>).map((r) => r.h),
       ...(db.prepare('select token_hash as h from password_resets').all() as Array<{ h: string }>).map((r) => r.h),
       ...(db.prepare('select token_hash as h from invitations').all() as Array<{ h: string }>).map((r) => r.h),
+      ...(db.prepare('select code_hash as h from recovery_codes').all() as Array<{ h: string }>).map((r) => r.h),
     ];
     expect(hashes.length).toBeGreaterThan(10);
     const rows = db.prepare('select * from audit_log').all() as AuditRow[];

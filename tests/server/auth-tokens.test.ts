@@ -5,7 +5,8 @@ import { eq, sql } from 'drizzle-orm';
 import { users } from '../../server/db/schema/index';
 import { hashToken, newId } from '../../server/lib/ids';
 import { passwordResets } from '../../server/db/schema/index';
-import { ABSOLUTE_SECONDS, AUDIENCE, IDLE_SECONDS, ISSUER, SESSION_COOKIE } from '../../server/lib/session';
+import { ABSOLUTE_SECONDS, AUDIENCE, IDLE_SECONDS, ISSUER, PENDING_COOKIE, SESSION_COOKIE } from '../../server/lib/session';
+import { totpCodeFor } from '../factories/second-factor';
 import { DEMO_PASSWORD, TestClock, demoAccounts, makeTestApp, type TestApp } from '../factories/test-app';
 
 // Session tokens, OWASP ASVS 5.0 9.1.x (algorithm allow-list, signature, issuer, audience),
@@ -28,7 +29,12 @@ describe('session tokens', () => {
   const signIn = async (email: string, password = DEMO_PASSWORD) => {
     const res = await request(t.app).post('/api/auth/sign-in').set('Origin', ORIGIN).send({ email, password });
     expect(res.status).toBe(200);
-    return cookieOf(res);
+    if (!res.body.secondFactor) return cookieOf(res);
+    // The accountant's password alone is no session: the code from the seeded authenticator completes it.
+    const pending = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((v) => v.startsWith(`${PENDING_COOKIE}=`))!.split(';')[0];
+    const done = await request(t.app).post('/api/auth/second-factor/totp').set('Origin', ORIGIN).set('Cookie', pending).send({ code: totpCodeFor(t.db.$client, email, clock.now().getTime()) });
+    expect(done.status).toBe(200);
+    return cookieOf(done);
   };
   const userRow = (email: string) => t.db.select().from(users).where(eq(users.email, email)).get()!;
   const nowS = () => Math.floor(clock.now().getTime() / 1000);

@@ -12,7 +12,7 @@ import { accessSync, constants } from 'node:fs';
 import type { Server } from 'node:http';
 import request from 'supertest';
 import sharp from 'sharp';
-import { DEMO_PASSWORD, demoAccounts, makeTestApp, TestClock, type DemoKey, type TestApp } from '../factories/test-app';
+import { completeSecondFactor, DEMO_PASSWORD, demoAccounts, makeTestApp, TestClock, type DemoKey, type TestApp } from '../factories/test-app';
 import { attachEvidence, completeDraftBody } from './claims-fixtures';
 import { insertApprovedClaim } from './payments-fixtures';
 import { hashToken, newId, newToken } from '../../server/lib/ids';
@@ -56,7 +56,7 @@ export interface Cell {
 }
 
 export interface RouteCase {
-  method: 'GET' | 'POST' | 'PATCH' | 'DELETE';
+  method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
   /** The route as Express knows it, e.g. /api/claims/:id */
   route: string;
   /** Tells variants of one route apart. */
@@ -76,6 +76,19 @@ export interface RouteCase {
   /** Headers sent with the request (a probe of the Host allow-list or the Origin check). */
   headers?: Record<string, string>;
 }
+
+/**
+ * The sign-in's second step: served only to a pending sign-in (a right password, no second factor
+ * yet), which no principal of the table holds; their successes are tested in second-factor.test.ts.
+ */
+export const PENDING_SIGN_IN_ROUTES = new Set([
+  'POST /api/auth/second-factor/totp',
+  'POST /api/auth/second-factor/recovery',
+  'POST /api/auth/second-factor/passkey/options',
+  'POST /api/auth/second-factor/passkey',
+  'POST /api/auth/second-factor/enrol/totp',
+  'POST /api/auth/second-factor/enrol/totp/confirm',
+]);
 
 /** Routes a signed-out visitor may call. Everything else must answer 401 to anonymous. */
 export const PUBLIC_ROUTES = new Set([
@@ -104,7 +117,7 @@ export function urlOf(route: string, req: Req): string {
 /** Sends a built request with the agent (same-origin header set). */
 export function send(agent: Agent, method: RouteCase['method'], route: string, req: Req, headers: Record<string, string> = {}) {
   const url = urlOf(route, req);
-  let r = (method === 'GET' ? agent.get(url) : method === 'POST' ? agent.post(url) : method === 'PATCH' ? agent.patch(url) : agent.delete(url)).set('Origin', ORIGIN);
+  let r = (method === 'GET' ? agent.get(url) : method === 'POST' ? agent.post(url) : method === 'PATCH' ? agent.patch(url) : method === 'PUT' ? agent.put(url) : agent.delete(url)).set('Origin', ORIGIN);
   for (const [k, v] of Object.entries(headers)) r = r.set(k, v);
   if (req.multipart) {
     for (const [k, v] of Object.entries(req.multipart.fields ?? {})) r = r.field(k, v);
@@ -230,6 +243,7 @@ export async function makeFixtures(t: TestApp): Promise<Fixtures> {
     if (who === 'anonymous') return a;
     const res = await a.post('/api/auth/sign-in').set('Origin', ORIGIN).send({ email: demoAccounts[who], password: DEMO_PASSWORD });
     expectStatus(res, 200, `sign-in as ${who}`);
+    if (res.body?.secondFactor) await completeSecondFactor(a, t.db, demoAccounts[who as DemoKey], res.body.secondFactor.purpose, t.deps.clock.now().getTime());
     return a;
   };
   const agent = async (who: Principal): Promise<Agent> => {
@@ -467,6 +481,38 @@ export const routes: RouteCase[] = [
     build: ({ f }) => ({ body: { token: f.fresh.passwordReset().token, password: 'a long new passphrase for the fixture person' } }),
     expect: x(OK, OK, OK, OK, OK, OK, OK),
   },
+
+  // ------------------------------------------------------------------------------ second factor and step-up
+  // The sign-in's second step needs the pending cookie of a right password: without it everyone gets 401.
+  ...(
+    [
+      ['/api/auth/second-factor/totp', { code: '123456' }],
+      ['/api/auth/second-factor/recovery', { code: 'ABCDE-12345' }],
+      ['/api/auth/second-factor/passkey/options', {}],
+      ['/api/auth/second-factor/passkey', { response: { id: 'x', rawId: 'x', type: 'public-key', response: { clientDataJSON: 'x' } } }],
+      ['/api/auth/second-factor/enrol/totp', {}],
+      ['/api/auth/second-factor/enrol/totp/confirm', { code: '123456' }],
+    ] as const
+  ).map(([route, body]): RouteCase => ({ method: 'POST', route, build: () => ({ body }), expect: x(401, 401, 401, 401, 401, 401, 401) })),
+  { method: 'POST', route: '/api/auth/step-up', build: () => ({ body: { password: DEMO_PASSWORD } }), expect: x(401, OK, OK, OK, OK, OK, OK) },
+  { method: 'GET', route: '/api/account/security', build: () => ({}), expect: x(401, OK, OK, OK, OK, OK, OK) },
+  // Starting an authenticator set-up: the accountant and the manufacturer admin have one already (409).
+  { method: 'POST', route: '/api/account/security/totp', build: () => ({}), expect: x(401, OK, OK, OK, OK, 409, 409) },
+  { method: 'POST', route: '/api/account/security/totp/confirm', build: () => ({ body: { code: '000000' } }), expect: x(401, 400, 400, 400, 400, 409, 409) },
+  // Removing the only factor of a role that needs one is refused (409); nothing to remove is 404.
+  { method: 'DELETE', route: '/api/account/security/totp', build: () => ({}), expect: x(401, 404, 404, 404, 404, 409, 409) },
+  { method: 'POST', route: '/api/account/security/recovery-codes', build: () => ({}), expect: x(401, 409, 409, 409, 409, OK, OK) },
+  { method: 'POST', route: '/api/account/security/passkeys/options', build: () => ({}), expect: x(401, OK, OK, OK, OK, OK, OK) },
+  {
+    method: 'POST',
+    route: '/api/account/security/passkeys',
+    build: () => ({ body: { response: { id: 'x', rawId: 'x', type: 'public-key', response: { clientDataJSON: 'x' } } } }),
+    // No registration started for this agent (or a made-up answer): refused with a reason.
+    expect: x(401, 400, 400, 400, 400, 400, 400),
+  },
+  { method: 'DELETE', route: '/api/account/security/passkeys/:id', build: () => ({ params: { id: 'no-such-passkey' } }), expect: x(401, 404, 404, 404, 404, 404, 404) },
+  // Only an organisation's admin sets whether all its users need a second factor.
+  { method: 'PUT', route: '/api/account/security/organisation', build: () => ({ body: { requireSecondFactor: false } }), expect: x(401, 403, OK, 403, 403, 403, OK) },
 
   // ------------------------------------------------------------------------------ claims
   {

@@ -11,3 +11,4 @@ export * from './idempotency';
 export * from './approval-limits';
 export * from './throttle';
 export * from './uploads';
+export * from './second-factor';

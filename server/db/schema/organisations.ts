@@ -20,6 +20,8 @@ export const organisations = sqliteTable(
     timeZone: text('time_zone').notNull().default('America/Chicago'),
     currency: text('currency').notNull().default('USD'),
     active: integer('active', { mode: 'boolean' }).notNull().default(true),
+    /** The organisation's admin requires a second factor of every user (accountants and manufacturer admins always need one). */
+    requireSecondFactor: integer('require_second_factor', { mode: 'boolean' }).notNull().default(false),
     createdAt: text('created_at').notNull(),
     updatedAt: text('updated_at').notNull(),
   },

@@ -35,9 +35,12 @@ import {
   repairCodes,
   sites,
   units,
+  totpCredentials,
   users,
   type ClaimStateValue,
 } from '../schema/index';
+import { newTotpSecret } from '../../lib/totp';
+import { rolesRequiringSecondFactor } from '@shared/schemas/second-factor';
 import { hashPassword } from '../../lib/passwords';
 import { newId } from '../../lib/ids';
 import { createRandom, type Random } from './random';
@@ -1131,6 +1134,12 @@ export function seedDemo(db: Db, opts: SeedOptions): SeedSummary {
     t.insert(repairCodes).values(codeRows).run();
     t.insert(readingSpecs).values(specRows).run();
     t.insert(users).values(userRows).run();
+    // Demo accounts whose role needs a second factor get an authenticator secret, random for each
+    // database (never a constant): `npm run demo:code -- <e-mail>` prints the current code.
+    const totpRows = userSeeds
+      .filter((u) => u.demo && u.active !== false && rolesRequiringSecondFactor.includes(u.role))
+      .map((u) => ({ userId: userId.get(u.key)!, secret: newTotpSecret(), confirmedAt: stamp(880), createdAt: stamp(880) }));
+    if (totpRows.length > 0) t.insert(totpCredentials).values(totpRows).run();
     t.insert(certifications).values(certRows).run();
     t.insert(sites).values(siteRows).run();
     put(unitRows, (c) => t.insert(units).values(c).run());
@@ -1206,5 +1215,11 @@ export function printDemoSignIns(write: (line: string) => void = (line) => conso
   const w2 = Math.max(4, ...rows.map((r) => r.roleLabel.length));
   write(`Demo sign-ins (password for every one: ${DEMO_PASSWORD}; invented demo data only)`);
   write(`  ${'E-mail'.padEnd(w1)}  ${'Role'.padEnd(w2)}  Organisation`);
-  for (const r of rows) write(`  ${r.email.padEnd(w1)}  ${r.roleLabel.padEnd(w2)}  ${r.organisation}`);
+  for (const r of rows) write(`  ${r.email.padEnd(w1)}  ${r.roleLabel.padEnd(w2)}  ${r.organisation}${rolesRequiringSecondFactor.includes(r.role) ? '  (+ authenticator code)' : ''}`);
+  const withCode = rows.filter((r) => rolesRequiringSecondFactor.includes(r.role));
+  if (withCode.length > 0) {
+    write('Accounts marked (+ authenticator code) also ask for a 6-digit code after the password. Print the current one with');
+    write(`  npm run demo:code -- ${withCode[0].email}`);
+    write('or add the secret it prints to an authenticator app.');
+  }
 }

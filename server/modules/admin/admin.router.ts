@@ -6,6 +6,7 @@ import { requireCtx } from '../../lib/context';
 import { ForbiddenError, NotFoundError } from '../../lib/errors';
 import { requireUser } from '../../middleware/authenticate';
 import { parseBody } from '../../middleware/validate';
+import { bodyHas, requireRecentAuth } from '../../middleware/require-recent-auth';
 import { clientAddress } from '../../middleware/rate-limit';
 import {
   createAgencySchema,
@@ -52,6 +53,9 @@ export function adminRouter(deps: AppDeps): Router {
     next();
   });
   const ip = clientAddress;
+  // Prices, allowances, contract terms and roles: a sign-in or second factor within the last 5 minutes.
+  const stepUp = requireRecentAuth(deps.clock);
+  const stepUpFor = (...fields: string[]) => requireRecentAuth(deps.clock, bodyHas(...fields));
 
   // ---------------------------------------------------------------- catalogue
   r.get('/families', (req, res) => {
@@ -97,9 +101,9 @@ export function adminRouter(deps: AppDeps): Router {
     const ctx = requireCtx(req);
     res.status(201).json(catalog.createPart(ctx, parseBody(createPartSchema, req.body), ip(req)));
   });
-  r.patch('/parts/:id', (req, res) => {
+  r.patch('/parts/:id', stepUpFor('listPriceCents', 'priceEffectiveFrom'), (req, res) => {
     const ctx = requireCtx(req);
-    res.json(catalog.updatePart(ctx, req.params.id, parseBody(updatePartSchema, req.body), ip(req)));
+    res.json(catalog.updatePart(ctx, String(req.params.id), parseBody(updatePartSchema, req.body), ip(req)));
   });
   r.get('/parts/:id/prices', (req, res) => {
     const ctx = requireCtx(req);
@@ -115,9 +119,9 @@ export function adminRouter(deps: AppDeps): Router {
     const ctx = requireCtx(req);
     res.status(201).json(catalog.createRepairCode(ctx, parseBody(createRepairCodeSchema, req.body), ip(req)));
   });
-  r.patch('/repair-codes/:id', (req, res) => {
+  r.patch('/repair-codes/:id', stepUpFor('allowedHours', 'allowanceEffectiveFrom'), (req, res) => {
     const ctx = requireCtx(req);
-    res.json(catalog.updateRepairCode(ctx, req.params.id, parseBody(updateRepairCodeSchema, req.body), ip(req)));
+    res.json(catalog.updateRepairCode(ctx, String(req.params.id), parseBody(updateRepairCodeSchema, req.body), ip(req)));
   });
   r.get('/repair-codes/:id/allowances', (req, res) => {
     const ctx = requireCtx(req);
@@ -149,13 +153,13 @@ export function adminRouter(deps: AppDeps): Router {
   r.get('/agencies/:id/terms', (req, res) => {
     res.json({ items: agencies.listTerms(requireCtx(req), req.params.id) });
   });
-  r.post('/agencies/:id/terms', (req, res) => {
+  r.post('/agencies/:id/terms', stepUp, (req, res) => {
     const ctx = requireCtx(req);
-    res.status(201).json(agencies.createTerms(ctx, req.params.id, parseBody(createTermsSchema, req.body), ip(req)));
+    res.status(201).json(agencies.createTerms(ctx, String(req.params.id), parseBody(createTermsSchema, req.body), ip(req)));
   });
-  r.patch('/agencies/:id/terms/:termsId', (req, res) => {
+  r.patch('/agencies/:id/terms/:termsId', stepUp, (req, res) => {
     const ctx = requireCtx(req);
-    res.json(agencies.updateTerms(ctx, req.params.id, req.params.termsId, parseBody(updateTermsSchema, req.body), ip(req)));
+    res.json(agencies.updateTerms(ctx, String(req.params.id), String(req.params.termsId), parseBody(updateTermsSchema, req.body), ip(req)));
   });
 
   // ---------------------------------------------------------------- manufacturer users
@@ -169,10 +173,10 @@ export function adminRouter(deps: AppDeps): Router {
     if (!scopeRoles.manufacturer.includes(body.role)) throw roleRefusal('manufacturer');
     res.status(201).json(invitations.invite(ctx, { organisationId: ctx.user.organisationId, role: body.role, email: body.email }, ip(req)));
   });
-  r.patch('/users/:id', (req, res) => {
+  r.patch('/users/:id', stepUpFor('role'), (req, res) => {
     const ctx = requireCtx(req);
     requireUserAdmin(ctx, 'manufacturer');
-    res.json(usersService.update(ctx, 'manufacturer', req.params.id, parseBody(updateUserSchema, req.body), ip(req)));
+    res.json(usersService.update(ctx, 'manufacturer', String(req.params.id), parseBody(updateUserSchema, req.body), ip(req)));
   });
 
   // ---------------------------------------------------------------- reviewers' approval limits

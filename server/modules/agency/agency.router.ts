@@ -7,6 +7,7 @@ import { ForbiddenError, NotFoundError } from '../../lib/errors';
 import { requireUser } from '../../middleware/authenticate';
 import { parseBody, parseQuery } from '../../middleware/validate';
 import { clientAddress } from '../../middleware/rate-limit';
+import { bodyHas, requireRecentAuth } from '../../middleware/require-recent-auth';
 import {
   certificationListQuerySchema,
   createCertificationSchema,
@@ -46,11 +47,12 @@ export function agencyRouter(deps: AppDeps): Router {
     res.status(201).json(invitations.invite(ctx, { organisationId: ctx.user.organisationId, role: body.role, email: body.email }, clientAddress(req)));
   });
 
-  r.patch('/users/:id', (req, res) => {
+  // A role change needs a sign-in or second factor within the last 5 minutes.
+  r.patch('/users/:id', requireRecentAuth(deps.clock, (req) => requireCtx(req).user.role === 'agency_admin' && bodyHas('role')(req)), (req, res) => {
     const ctx = requireCtx(req);
     requireUserAdmin(ctx, 'agency');
     const body = parseBody(updateUserSchema, req.body);
-    res.json(usersService.update(ctx, 'agency', req.params.id, body, clientAddress(req)));
+    res.json(usersService.update(ctx, 'agency', String(req.params.id), body, clientAddress(req)));
   });
 
   r.get('/certifications', (req, res) => {

@@ -13,6 +13,8 @@ import { AttemptLimiter, type LimitTier } from '../../middleware/rate-limit';
 import { createSignInThrottle, defaultSignInLimits, type DeviceCookie, type SignInLimits } from './sign-in-throttle';
 import { defineAbilityFor, type AppAbility, type SessionUser } from '@shared/permissions/ability';
 import type { MeResponse } from '@shared/schemas/user';
+import type { SecondFactorChallenge } from '@shared/schemas/second-factor';
+import type { SecondFactorService } from '../second-factor/second-factor.service';
 import { findAccountByEmail, findAccountById, findResetByTokenHash, type AccountRow } from './auth.queries';
 
 const MINUTE = 60_000;
@@ -52,17 +54,16 @@ export class InvalidResetTokenError extends AppError {
   }
 }
 
-export interface SignInResult {
-  token: string;
-  me: MeResponse;
-  /** The device cookie that makes this browser a trusted device for the account. */
-  device: DeviceCookie;
-}
+/** `device`: the device cookie that makes this browser a trusted device for the account (set once the password is right). */
+export type SignInResult =
+  | { kind: 'session'; token: string; me: MeResponse; device: DeviceCookie }
+  /** The password was right; `pending` is the short-lived second-factor token, not a session. */
+  | { kind: 'pending'; pending: string; challenge: SecondFactorChallenge; device: DeviceCookie };
 
 export type AuthService = ReturnType<typeof createAuthService>;
 
 /** Sign-in, sign-out, "me" and password reset. Limiters live in this instance (one per app). */
-export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {}) {
+export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {}, secondFactor?: SecondFactorService) {
   const l: AuthLimits = { ...defaultAuthLimits, ...limits };
   const { db, clock, env } = deps;
   const throttle = createSignInThrottle(deps, l);
@@ -85,7 +86,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
     };
   }
 
-  return {
+  const service = {
     limiters,
 
     /**
@@ -121,14 +122,43 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       }
 
       const a = account as AccountRow;
+      // A right password alone is not a session when a second factor is enrolled or required.
+      const next = secondFactor ? secondFactor.nextStep(a) : ({ step: 'session' } as const);
+      if (next.step !== 'session') {
+        writeAudit(db, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip, detail: { secondFactor: next.step } });
+        const pending = await deps.tokens.issuePending({ sub: a.id, sv: a.sessionVersion, pu: next.step }, nowSeconds());
+        return { kind: 'pending', pending, challenge: { secondFactor: { purpose: next.step, methods: next.methods } }, device: await throttle.deviceCookie(a.id) };
+      }
+      return { kind: 'session', ...(await service.startSession(a.id, ip, null)), device: await throttle.deviceCookie(a.id) };
+    },
+
+    /**
+     * Issues a session for a user who has proved who they are (password, and the second factor
+     * where one is needed). `factor` names the second factor used, for the audit row.
+     */
+    async startSession(userId: string, ip: string, factor: string | null): Promise<{ token: string; me: MeResponse }> {
+      const a = findAccountById(db, userId);
+      const sv = db.select({ sv: users.sessionVersion }).from(users).where(eq(users.id, userId)).get()?.sv;
+      if (!a || sv === undefined || !a.active || !a.organisationActive) throw new InvalidCredentialsError();
       const now = clock.now().toISOString();
       tx(db, (t) => {
         t.update(users).set({ lastSignInAt: now }).where(eq(users.id, a.id)).run();
-        writeAudit(t, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip });
+        if (factor) writeAudit(t, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip, detail: { secondFactor: factor } });
+        else writeAudit(t, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip });
       });
-      const token = await deps.tokens.issue(a.id, a.sessionVersion, nowSeconds(), nowSeconds(), a.role);
+      const token = await deps.tokens.issue(a.id, sv, nowSeconds(), nowSeconds(), a.role);
       const ability = defineAbilityFor({ id: a.id, email: a.email, name: a.name, role: a.role, organisationId: a.organisationId, organisationKind: a.organisationKind });
-      return { token, me: meOf(a, ability), device: await throttle.deviceCookie(a.id) };
+      return { token, me: meOf(a, ability) };
+    },
+
+    auditStepUp(user: SessionUser, ip: string, method: string, ok: boolean): void {
+      writeAudit(db, clock, { actorId: user.id, organisationId: user.organisationId, action: 'auth.step_up', recordType: 'User', recordId: user.id, outcome: ok ? 'success' : 'failure', ip, detail: { method } });
+    },
+
+    /** Step-up with the password: same hashing and timing as sign-in, counted against the account's code guesses. */
+    async checkPassword(userId: string, password: string): Promise<boolean> {
+      const row = db.select({ hash: users.passwordHash }).from(users).where(eq(users.id, userId)).get();
+      return verifyPassword(password, row?.hash ?? dummyPasswordHash(env.PASSWORD_PEPPER, env.BCRYPT_COST), env.PASSWORD_PEPPER).then((ok) => ok && !!row?.hash);
     },
 
     /** Ends every session of the user at once (the session version moves on). */
@@ -257,4 +287,5 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       throttle.clearAccount(account.email);
     },
   };
+  return service;
 }

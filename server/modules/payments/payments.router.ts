@@ -3,6 +3,7 @@ import type { AppDeps } from '../../lib/deps';
 import { requireCtx } from '../../lib/context';
 import { requireUser } from '../../middleware/authenticate';
 import { parseBody, parseQuery } from '../../middleware/validate';
+import { requireRecentAuth } from '../../middleware/require-recent-auth';
 import { createPaymentRunSchema, markPaidSchema, paymentRunListQuerySchema } from '@shared/schemas/payment';
 import { createPaymentsService } from './payments.service';
 
@@ -12,6 +13,8 @@ export function paymentsRouter(deps: AppDeps): Router {
   const r = Router();
   r.use(requireUser);
   const actor = (req: Request) => ({ ctx: requireCtx(req), ip: req.ip ?? null });
+  // Money leaves the manufacturer: a sign-in or second factor within the last 5 minutes, for the roles that may pay at all.
+  const stepUp = requireRecentAuth(deps.clock, (req) => requireCtx(req).ability.can('update', 'PaymentRun'));
 
   r.get('/ready', (req, res) => {
     res.json(service.ready(actor(req)));
@@ -25,10 +28,10 @@ export function paymentsRouter(deps: AppDeps): Router {
   r.get('/:id', (req, res) => {
     res.json(service.get(actor(req), String(req.params.id)));
   });
-  r.post('/:id/paid', (req, res) => {
+  r.post('/:id/paid', stepUp, (req, res) => {
     res.json(service.markPaid(actor(req), String(req.params.id), parseBody(markPaidSchema, req.body)));
   });
-  r.post('/:id/void', (req, res) => {
+  r.post('/:id/void', stepUp, (req, res) => {
     res.json(service.void(actor(req), String(req.params.id)));
   });
   return r;

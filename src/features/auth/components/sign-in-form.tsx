@@ -9,19 +9,22 @@ import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { applyServerErrors } from '@/lib/form-errors';
 import { paths } from '@/config/paths';
+import type { SecondFactorChallenge } from '@shared/schemas/second-factor';
 import { useSignIn } from '../api/sign-in';
+import { SecondFactorStep } from './second-factor-step';
 
 const fieldNames = ['email', 'password'] as const;
 
 export function SignInForm({ onSuccess }: { onSuccess: (me: MeResponse) => void }) {
   const [formError, setFormError] = useState<string | null>(null);
+  const [challenge, setChallenge] = useState<SecondFactorChallenge | null>(null);
   const {
     register,
     handleSubmit,
     setError,
     formState: { errors },
   } = useForm<SignInBody>({ resolver: zodResolver(signInBodySchema), defaultValues: { email: '', password: '' } });
-  const signIn = useSignIn({ onSuccess });
+  const signIn = useSignIn({ onSuccess, onSecondFactor: setChallenge });
 
   const onSubmit = handleSubmit((values) => {
     setFormError(null);
@@ -29,6 +32,8 @@ export function SignInForm({ onSuccess }: { onSuccess: (me: MeResponse) => void 
       onError: (e) => setFormError(applyServerErrors(e, setError, fieldNames)),
     });
   });
+
+  if (challenge) return <SecondFactorStep challenge={challenge} onSuccess={onSuccess} onRestart={() => setChallenge(null)} />;
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Sign in">
