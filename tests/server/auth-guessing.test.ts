@@ -189,7 +189,8 @@ describe('lockout: 1,000 wrong guesses on one account from fresh clients, then t
     expect((await postFrom(t, email, 'owner-typo-in-the-password-2', { cookie: device, forwardedFor: '198.51.100.7' })).status).toBe(401);
     const owner = await postFrom(t, email, DEMO_PASSWORD, { cookie: device, forwardedFor: '198.51.100.7' });
     expect(owner.status).toBe(200);
-    expect(owner.body.user.email).toBe(email);
+    // The password is accepted; the accountant's second factor comes next (no session from the password alone).
+    expect(owner.body.secondFactor?.purpose).toBe('verify');
 
     // The attacker is still locked out, even with the right password, from a fresh client.
     const after = await postFrom(t, email, DEMO_PASSWORD, { forwardedFor: '203.0.113.99' });

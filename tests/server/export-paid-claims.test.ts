@@ -4,6 +4,7 @@ import type { AddressInfo } from 'node:net';
 import { parse } from 'csv-parse/sync';
 import Decimal from 'decimal.js';
 import { type DemoKey } from '../factories/test-app';
+import { totpCodeFor } from '../factories/second-factor';
 import { agencyId, HARBORVIEW, insertApprovedClaim, makePaymentsApp, PRAIRIE, type Agent, type PaymentsApp } from './payments-fixtures';
 
 let t: PaymentsApp;
@@ -255,10 +256,18 @@ describe('paid-claims export', () => {
     try {
       const signed = await fetch(`http://127.0.0.1:${port}/api/auth/sign-in`, {
         method: 'POST',
-        headers: { 'content-type': 'application/json', origin: `http://127.0.0.1:${port}` },
+        headers: { 'content-type': 'application/json', origin: new URL(t.env.PUBLIC_URL).origin },
         body: JSON.stringify({ email: 'accounts@larkfield.test', password: 'fieldproof-demo' }),
       });
-      const session = signed.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+      // The accountant's second factor: the code from the seeded authenticator secret.
+      const pending = signed.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+      const second = await fetch(`http://127.0.0.1:${port}/api/auth/second-factor/totp`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', origin: new URL(t.env.PUBLIC_URL).origin, cookie: pending },
+        body: JSON.stringify({ code: totpCodeFor(t.db.$client, 'accounts@larkfield.test', t.deps.clock.now().getTime()) }),
+      });
+      expect(second.status).toBe(200);
+      const session = second.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
       const paused = await new Promise<http.IncomingMessage>((resolve, reject) => {
         const req = http.get({ host: '127.0.0.1', port, path: '/api/exports/paid-claims.csv', headers: { cookie: session } }, resolve);
         req.on('error', reject);
