@@ -1,4 +1,4 @@
-import { screen, waitFor } from '@testing-library/react';
+import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { installFakeFetch, json } from '@/testing/fake-fetch';
 import { meFor, renderWithRouter } from '@/testing/render';
@@ -52,5 +52,40 @@ describe('SignInForm', () => {
     await fillAndSubmit('  Someone@Example.test ', 'a long enough password');
     await waitFor(() => expect(onSuccess).toHaveBeenCalledWith(me));
     expect(fake.calls[0].body).toEqual({ email: 'someone@example.test', password: 'a long enough password' });
+  });
+
+  it('asks for the authenticator code when the password alone is not enough, and hands the session over only after it', async () => {
+    const me = meFor('accountant');
+    const onSuccess = vi.fn();
+    fake = installFakeFetch((c) => {
+      if (c.url.pathname === '/api/auth/sign-in') return json({ secondFactor: { purpose: 'verify', methods: ['totp', 'recovery'] } });
+      if (c.url.pathname === '/api/auth/second-factor/totp') return json(me);
+      return undefined;
+    });
+    renderWithRouter(<SignInForm onSuccess={onSuccess} />);
+    await fillAndSubmit('accounts@example.test', 'a long enough password');
+    const step = await screen.findByRole('form', { name: 'Second factor' });
+    expect(onSuccess).not.toHaveBeenCalled();
+    const user = userEvent.setup();
+    await user.type(within(step).getByLabelText('Authenticator code'), '123 456');
+    await user.click(within(step).getByRole('button', { name: 'Verify' }));
+    await waitFor(() => expect(onSuccess).toHaveBeenCalledWith(me));
+    expect(fake.calls.at(-1)!.body).toEqual({ code: '123 456' });
+  });
+
+  it('offers a recovery code instead of the authenticator code', async () => {
+    fake = installFakeFetch((c) =>
+      c.url.pathname === '/api/auth/sign-in'
+        ? json({ secondFactor: { purpose: 'verify', methods: ['totp', 'recovery'] } })
+        : json({ error: { code: 'invalid_second_factor', message: 'That recovery code is not valid or was already used.' } }, { status: 400 }),
+    );
+    renderWithRouter(<SignInForm onSuccess={() => {}} />);
+    await fillAndSubmit('accounts@example.test', 'a long enough password');
+    const user = userEvent.setup();
+    await user.click(await screen.findByRole('button', { name: 'Use a recovery code instead' }));
+    await user.type(screen.getByLabelText('Recovery code'), 'ABCDE-12345');
+    await user.click(screen.getByRole('button', { name: 'Verify' }));
+    expect(await screen.findByRole('alert')).toHaveTextContent('That recovery code is not valid or was already used.');
+    expect(fake.calls.at(-1)!.url.pathname).toBe('/api/auth/second-factor/recovery');
   });
 });
