@@ -12,6 +12,8 @@ export const paymentRuns = sqliteTable(
     agencyId: text('agency_id')
       .notNull()
       .references(() => organisations.id),
+    /** The agency's name when the run was made: the run, its CSV and remittance pay this name, whatever the agency is called later. */
+    payeeName: text('payee_name').notNull().default(''),
     state: text('state', { enum: ['open', 'paid', 'void'] }).notNull().default('open'),
     totalCents: integer('total_cents').notNull(),
     currency: text('currency').notNull().default('USD'),

@@ -1108,6 +1108,7 @@ export function seedDemo(db: Db, opts: SeedOptions): SeedSummary {
       id: r.id,
       number: r.number!,
       agencyId: agencyId[r.agency],
+      payeeName: agencySeeds[r.agency].name,
       state: r.state,
       totalCents: sumOf(r.claims.map((c) => c.approved!.total)),
       createdBy: uid(accountant),

@@ -1,6 +1,6 @@
 import { and, asc, eq, gte, lte, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client';
-import { claims, models, organisations, paymentRunItems, paymentRuns, units, users } from '../../db/schema/index';
+import { claims, models, paymentRunItems, paymentRuns, units, users } from '../../db/schema/index';
 import { abilityToSql } from '../../lib/casl-to-sql';
 import type { AppAbility } from '@shared/permissions/ability';
 
@@ -35,7 +35,8 @@ export function paidClaimsQuery(db: Db, scope: SQL, f: ExportFilters) {
   return db
     .select({
       number: claims.number,
-      agency: organisations.name,
+      // the payee as named on the run that paid the claim
+      agency: paymentRuns.payeeName,
       technician: users.name,
       serial: units.serial,
       model: models.modelNumber,
@@ -52,7 +53,6 @@ export function paidClaimsQuery(db: Db, scope: SQL, f: ExportFilters) {
     .from(claims)
     .innerJoin(paymentRunItems, and(eq(paymentRunItems.claimId, claims.id), eq(paymentRunItems.active, 1)))
     .innerJoin(paymentRuns, eq(paymentRuns.id, paymentRunItems.runId))
-    .innerJoin(organisations, eq(organisations.id, claims.agencyId))
     .innerJoin(users, eq(users.id, claims.technicianId))
     .leftJoin(units, eq(units.id, claims.unitId))
     .leftJoin(models, eq(models.id, units.modelId))

@@ -90,7 +90,8 @@ const summaryColumns = {
   id: paymentRuns.id,
   number: paymentRuns.number,
   agencyId: paymentRuns.agencyId,
-  agencyName: organisations.name,
+  // the payee as named when the run was made, not the agency's current name
+  agencyName: paymentRuns.payeeName,
   state: paymentRuns.state,
   totalCents: paymentRuns.totalCents,
   currency: paymentRuns.currency,
@@ -108,7 +109,6 @@ function summaries(db: Db, where: SQL | undefined) {
   return db
     .select(summaryColumns)
     .from(paymentRuns)
-    .innerJoin(organisations, eq(organisations.id, paymentRuns.agencyId))
     .leftJoin(creator, eq(creator.id, paymentRuns.createdBy))
     .leftJoin(payer, eq(payer.id, paymentRuns.paidBy))
     .where(where);

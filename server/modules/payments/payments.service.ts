@@ -147,7 +147,7 @@ export function createPaymentsService(deps: AppDeps) {
         number = nextRunNumber(t);
         const total = chosen.reduce((s, c) => s + (c.approvedTotalCents ?? 0), 0);
         t.insert(paymentRuns)
-          .values({ id, number, agencyId: agency.id, state: 'open', totalCents: total, currency: chosen[0].currency, createdBy: user.id, createdAt: now })
+          .values({ id, number, agencyId: agency.id, payeeName: agency.name, state: 'open', totalCents: total, currency: chosen[0].currency, createdBy: user.id, createdAt: now })
           .run();
         // The partial unique index is the guard: a claim already in an open or paid run fails here.
         for (const c of chosen) t.insert(paymentRunItems).values({ id: newId(), runId: id, claimId: c.id, amountCents: c.approvedTotalCents!, active: 1 }).run();
@@ -207,10 +207,8 @@ export function createPaymentsService(deps: AppDeps) {
           sum += item.amountCents;
         }
         if (sum !== run.totalCents) throw new ConflictError(`Payment run ${run.number}: its total differs from the sum of its claims.`, 'amount_mismatch');
-        const agencyName = t.select({ name: organisations.name }).from(organisations).where(eq(organisations.id, run.agencyId)).get()?.name ?? '';
         recipients = queueRemittanceMail(t, clock, {
           run: { ...run, state: 'paid', paymentDate: body.paymentDate, reference: body.reference, paidBy: user.id, paidAt: now },
-          agencyName,
           publicUrl: deps.env.PUBLIC_URL,
         }).to;
         writeAudit(t, clock, {

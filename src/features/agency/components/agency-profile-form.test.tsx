@@ -52,3 +52,22 @@ describe('AgencyProfileForm with the shared name schema', () => {
     await waitFor(() => expect(fake!.calls.find((c) => c.method === 'PATCH')?.body).toMatchObject({ name: 'Caf\u00e9 Repair' }));
   });
 });
+
+describe('AgencyProfileForm rename', () => {
+  it('puts the new name into the session at once, so the header shows it without a reload', async () => {
+    fake = installFakeFetch((c) =>
+      c.method === 'PATCH' && c.url.pathname === '/api/agency/profile'
+        ? json({ ...profile, name: 'Test Agency Renamed' })
+        : c.url.pathname === '/api/auth/me'
+          ? json({ ...meFor('agency_admin'), organisation: { ...meFor('agency_admin').organisation, name: 'Test Agency Renamed' } })
+          : undefined,
+    );
+    const { queryClient } = renderWithRouter(<AgencyProfileForm profile={profile} />, { me: meFor('agency_admin') });
+    const name = screen.getByLabelText('Agency name');
+    await userEvent.clear(name);
+    await userEvent.type(name, 'Test Agency Renamed');
+    await userEvent.click(screen.getByRole('button', { name: 'Save the profile' }));
+    expect(await screen.findByText('The agency profile is saved.')).toBeTruthy();
+    expect(queryClient.getQueryData<{ organisation: { name: string } }>(['auth', 'me'])?.organisation.name).toBe('Test Agency Renamed');
+  });
+});

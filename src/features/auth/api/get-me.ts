@@ -2,6 +2,7 @@ import { useCallback, useSyncExternalStore } from 'react';
 import { queryOptions, useQueryClient } from '@tanstack/react-query';
 import type { MeResponse } from '@shared/schemas/user';
 import { api, isApiError } from '@/lib/api-client';
+import { sessionQueryKey } from '@/lib/session-cache';
 
 /** The session: the user, the organisation and the CASL rules; null when signed out (401). */
 export async function getMe(signal?: AbortSignal): Promise<MeResponse | null> {
@@ -17,7 +18,7 @@ export const authQueries = {
   all: ['auth'] as const,
   me: () =>
     queryOptions({
-      queryKey: [...authQueries.all, 'me'] as const,
+      queryKey: sessionQueryKey,
       queryFn: ({ signal }) => getMe(signal),
       staleTime: 5 * 60_000,
     }),
