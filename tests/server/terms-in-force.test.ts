@@ -10,6 +10,7 @@ let tech: Agent;
 let reviewer: Agent;
 let modelId: string;
 let mfr: Agent;
+const oldTermsId = newId();
 
 /** A unit of the demo grill model, shipped on the given day. */
 function unitShipped(shipDate: string): string {
@@ -36,7 +37,7 @@ beforeAll(async () => {
   t.db
     .insert(agencyTerms)
     .values({
-      id: newId(), agencyId: agencyIdByName(t, HARBORVIEW), effectiveFrom: '2021-01-01', effectiveTo: '2022-12-31',
+      id: oldTermsId, agencyId: agencyIdByName(t, HARBORVIEW), effectiveFrom: '2021-01-01', effectiveTo: '2022-12-31',
       laborRateCents: 9000, travelRateCents: 6000, mileageRateCents: null, maxRoundTripMiles: 500, maxTravelHours: 5,
       partsDiscountBps: 0, partsHandlingBps: 0, overtimeMultiplier: 1.5, filingWindowDays: 3000, createdAt: new Date().toISOString(),
     })
@@ -141,5 +142,16 @@ describe('warranty terms are fixed per unit by the terms in force when it shippe
     expect(ok.status).toBe(200);
     expect(ok.body.affectedClaims.count).toBeGreaterThanOrEqual(1);
     expect(ok.body.affectedClaims.numbers).toContain(filed.body.number);
+  });
+});
+
+describe('contract terms that have ended are read-only', () => {
+  it('an edit of expired terms is refused; terms in force stay editable', async () => {
+    const agencyId = agencyIdByName(t, HARBORVIEW);
+    const r = await mfr.patch(`/api/admin/agencies/${agencyId}/terms/${oldTermsId}`).send({ partsDiscountBps: 0, laborRateCents: 1 });
+    expect(r.status).toBe(409);
+    expect(r.body.error.code).toBe('terms_expired');
+    expect(r.body.error.message).toMatch(/ended on 2022-12-31 and are read-only/);
+    expect(t.db.select().from(agencyTerms).where(eq(agencyTerms.id, oldTermsId)).get()!.laborRateCents).toBe(9000);
   });
 });

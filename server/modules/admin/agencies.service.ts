@@ -158,6 +158,11 @@ export function createAgenciesService(deps: AppDeps, invitations: InvitationsSer
         requireAgency(t, agencyId);
         const row = getTerms(t, agencyId, termsId);
         if (!row) throw new NotFoundError('No such contract terms.');
+        // terms whose period has ended are history: claims were valued with them
+        const day = todayFor(t, clock, ctx.user.organisationId);
+        if (row.effectiveTo !== null && row.effectiveTo < day) {
+          throw new ConflictError(`These contract terms ended on ${row.effectiveTo} and are read-only; record new terms instead.`, 'terms_expired');
+        }
         const next = { ...row, ...Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined)) } as AgencyTerms;
         if (next.effectiveTo !== null && next.effectiveTo < next.effectiveFrom) {
           throw new AppError(400, 'validation_failed', 'Some fields need attention.', { effectiveTo: reversedRangeMessage('end date', next.effectiveTo, 'start date', next.effectiveFrom) });

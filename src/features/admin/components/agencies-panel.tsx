@@ -24,6 +24,15 @@ import { AgencyFields } from './agency-fields';
 import { Modal } from '@/components/ui/modal';
 import { TermsForm } from './terms-form';
 
+const todayIso = () => new Date().toISOString().slice(0, 10);
+
+/** The terms in force on a day (new terms start as a copy of them), else the latest. */
+function termsInForce(terms: readonly ContractTermsItem[], day: string): ContractTermsItem | undefined {
+  const inForce = terms.filter((t) => t.effectiveFrom <= day && (t.effectiveTo === null || t.effectiveTo >= day));
+  const pool = inForce.length > 0 ? inForce : [...terms];
+  return pool.sort((x, y) => (x.effectiveFrom < y.effectiveFrom ? 1 : -1))[0];
+}
+
 const agencyFieldNames = ['name', 'contactEmail', 'addressLine', 'city', 'region', 'postalCode', 'latitude', 'longitude', 'timeZone', 'adminEmail'] as const;
 
 /** Service agencies: their profile, first admin and contract terms by period. */
@@ -201,9 +210,13 @@ function AgencyDetailCard({ id, onClose }: { id: string; onClose: () => void }) 
                         </Td>
                         <Td className="text-right">{t.filingWindowDays} days</Td>
                         <Td className="text-right">
-                          <Button size="sm" variant="ghost" onClick={() => setEditingTerms(t)}>
-                            Edit
-                          </Button>
+                          {t.effectiveTo !== null && t.effectiveTo < todayIso() ? (
+                            <span className="text-xs text-ink-600">Ended, read-only</span>
+                          ) : (
+                            <Button size="sm" variant="ghost" onClick={() => setEditingTerms(t)}>
+                              Edit
+                            </Button>
+                          )}
                         </Td>
                       </Tr>
                     ))}
@@ -215,7 +228,12 @@ function AgencyDetailCard({ id, onClose }: { id: string; onClose: () => void }) 
         )}
       </CardBody>
       <Modal open={editingTerms !== null} onClose={() => setEditingTerms(null)} title={editingTerms === 'new' ? 'New contract terms' : 'Edit contract terms'}>
-        {a && editingTerms && <TermsForm agencyId={a.id} terms={editingTerms === 'new' ? undefined : editingTerms} onDone={() => setEditingTerms(null)} />}
+        {a && editingTerms && <TermsForm
+            agencyId={a.id}
+            terms={editingTerms === 'new' ? undefined : editingTerms}
+            copyOf={editingTerms === 'new' ? termsInForce(a.terms, todayIso()) : undefined}
+            onDone={() => setEditingTerms(null)}
+          />}
       </Modal>
       <Modal open={editingProfile} onClose={() => setEditingProfile(false)} title={a ? `Edit ${a.name}` : 'Edit agency'}>
         {a && editingProfile && <EditAgencyForm agency={a} onDone={() => setEditingProfile(false)} />}

@@ -35,7 +35,7 @@ const parsePercent = (t: string) => (t.trim() === '' || !/^\d+(\.\d{1,2})?$/.tes
  * One period of contract terms. Dates are inclusive; no end date means open-ended. Periods of
  * one agency never overlap (the server refuses and says which period is in the way).
  */
-export function TermsForm({ agencyId, terms, onDone }: { agencyId: string; terms?: ContractTermsItem; onDone: () => void }) {
+export function TermsForm({ agencyId, terms, copyOf, onDone }: { agencyId: string; terms?: ContractTermsItem; copyOf?: ContractTermsItem; onDone: () => void }) {
   const create = useCreateTerms();
   const update = useUpdateTerms();
   const [formError, setFormError] = useState<string | null>(null);
@@ -56,7 +56,22 @@ export function TermsForm({ agencyId, terms, onDone }: { agencyId: string; terms
           filingWindowDays: terms.filingWindowDays,
           closePrevious: false,
         }
-      : { effectiveTo: null, mileageRateCents: null, partsDiscountBps: 0, partsHandlingBps: 0, overtimeMultiplier: 1.5, filingWindowDays: 30, closePrevious: true },
+      : copyOf
+        ? {
+            // new terms start as a copy of those in force (rates, caps, discount, handling, window)
+            effectiveTo: null,
+            laborRateCents: copyOf.laborRateCents,
+            travelRateCents: copyOf.travelRateCents,
+            mileageRateCents: copyOf.mileageRateCents,
+            maxRoundTripMiles: copyOf.maxRoundTripMiles,
+            maxTravelHours: copyOf.maxTravelHours,
+            partsDiscountBps: copyOf.partsDiscountBps,
+            partsHandlingBps: copyOf.partsHandlingBps,
+            overtimeMultiplier: copyOf.overtimeMultiplier,
+            filingWindowDays: copyOf.filingWindowDays,
+            closePrevious: true,
+          }
+        : { effectiveTo: null, mileageRateCents: null, partsDiscountBps: 0, partsHandlingBps: 0, overtimeMultiplier: 1.5, filingWindowDays: 30, closePrevious: true },
   });
   const errors = formState.errors;
   const num = { valueAsNumber: true } as const;
