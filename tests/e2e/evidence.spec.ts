@@ -149,7 +149,7 @@ test('photos with roles, a readings sheet, and a reused photo the reviewer sees 
   await expect(lightbox.getByRole('img', { name: `Serial plate photo ${plate.name}` })).toBeVisible();
   const checks = lightbox.getByRole('list', { name: 'Checks on this file' });
   await expect(checks).toContainText('Photo reused');
-  await expect(checks).toContainText(`is the same file as a photo on claim ${draft!.number} (identical SHA-256)`);
+  await expect(checks).toContainText(`is the same file (identical SHA-256) as a photo on claim ${draft!.number}.`);
   await lightbox.getByRole('button', { name: 'Close' }).click();
   await expect(lightbox).toBeHidden();
 });

@@ -11,35 +11,61 @@ export type { APIRequestContext, Page } from '@playwright/test';
 /** The narrowest phone width every screen must fit without sideways scrolling. */
 export const PHONE = { width: 390, height: 844 } as const;
 
-/** How wide the document is against its viewport at a 390 px phone width (the viewport is restored afterwards). */
+/** How wide the document is against its viewport, measured in the page as it is now. */
+async function measureWidth(page: Page): Promise<{ scrollWidth: number; clientWidth: number; widest: string }> {
+  // two frames, so layout and any resize observers have run at the current width
+  return page.evaluate(
+    () =>
+      new Promise<{ scrollWidth: number; clientWidth: number; widest: string }>((resolve) =>
+        requestAnimationFrame(() =>
+          requestAnimationFrame(() => {
+            const root = document.documentElement;
+            // name the element that sticks out furthest, so a failure says where to look
+            let widest = '';
+            let right = root.clientWidth;
+            for (const el of Array.from(document.body.querySelectorAll('*'))) {
+              const r = el.getBoundingClientRect().right + window.scrollX;
+              if (r > right + 0.5) {
+                right = r;
+                widest = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}${typeof el.className === 'string' && el.className ? `.${el.className.split(/\s+/).slice(0, 3).join('.')}` : ''} (right edge ${Math.round(r)} px)`;
+              }
+            }
+            resolve({ scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest });
+          }),
+        ),
+      ),
+  );
+}
+
+/** How wide the document is at a 390 px phone width: this page resized, measured, and restored. */
 export async function widthAt390(page: Page): Promise<{ scrollWidth: number; clientWidth: number; widest: string }> {
   const before = page.viewportSize();
   await page.setViewportSize(PHONE);
   try {
-    // two frames, so layout and any resize observers have run at the new width
-    return await page.evaluate(
-      () =>
-        new Promise<{ scrollWidth: number; clientWidth: number; widest: string }>((resolve) =>
-          requestAnimationFrame(() =>
-            requestAnimationFrame(() => {
-              const root = document.documentElement;
-              // name the element that sticks out furthest, so a failure says where to look
-              let widest = '';
-              let right = root.clientWidth;
-              for (const el of Array.from(document.body.querySelectorAll('*'))) {
-                const r = el.getBoundingClientRect().right + window.scrollX;
-                if (r > right + 0.5) {
-                  right = r;
-                  widest = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}${typeof el.className === 'string' && el.className ? `.${el.className.split(/\s+/).slice(0, 3).join('.')}` : ''} (right edge ${Math.round(r)} px)`;
-                }
-              }
-              resolve({ scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest });
-            }),
-          ),
-        ),
-    );
+    return await measureWidth(page);
   } finally {
     if (before) await page.setViewportSize(before);
+  }
+}
+
+/** Pages the screen checks open themselves, which are not watched in turn. */
+const twins = new WeakSet<Page>();
+
+/**
+ * The same address opened in a second page of the same context (same session) at 390x844 and
+ * measured there, so the journey's own page never changes size under its steps (a read of a
+ * table hidden at phone width would otherwise come back empty).
+ */
+async function widthAt390Twin(context: BrowserContext, url: string): Promise<{ scrollWidth: number; clientWidth: number; widest: string }> {
+  const twin = await context.newPage();
+  twins.add(twin);
+  try {
+    await twin.setViewportSize(PHONE);
+    await twin.goto(url, { waitUntil: 'load', timeout: 15_000 });
+    await twin.waitForLoadState('networkidle', { timeout: 2_000 }).catch(() => undefined);
+    return await measureWidth(twin);
+  } finally {
+    await twin.close();
   }
 }
 
@@ -87,8 +113,9 @@ function gone(e: unknown): boolean {
 
 /**
  * Watches a page: after every main-frame navigation (loads and in-app route changes alike) the
- * screen, once settled, is checked with axe-core and for sideways overflow at 390 px. Checks run
- * one at a time; findings are collected, never thrown into the journey's own steps.
+ * screen, once settled, is checked with axe-core (in the page as it is) and for sideways overflow
+ * at 390 px (the same address in a second page at phone size). Checks run one at a time; findings
+ * are collected, never thrown into the journey's own steps.
  */
 class ScreenWatch {
   private chain: Promise<void> = Promise.resolve();
@@ -97,6 +124,7 @@ class ScreenWatch {
   private checked = 0;
 
   watch(page: Page): void {
+    if (twins.has(page)) return;
     page.on('framenavigated', (frame) => {
       if (frame !== page.mainFrame()) return;
       if (!/^https?:/.test(frame.url())) return;
@@ -127,7 +155,7 @@ class ScreenWatch {
       await page.waitForLoadState('load', { timeout: 10_000 });
       await page.waitForLoadState('networkidle', { timeout: 2_000 }).catch(() => undefined);
       if (page.isClosed() || page.url() !== url) return;
-      const w = await widthAt390(page);
+      const w = await widthAt390Twin(page.context(), url);
       if (w.scrollWidth > w.clientWidth) this.findings.push(`${url}: ${w.scrollWidth} px wide at 390 px (widest: ${w.widest})`);
       if (page.isClosed() || page.url() !== url) return;
       for (const v of await axeViolations(page)) this.findings.push(`${url}: axe ${v}`);

@@ -1,4 +1,4 @@
-import { test, expect } from '@playwright/test';
+import { test, expect } from './fixtures';
 import { signIn } from './fixtures';
 
 /** The technician's home: a "New claim" action, and drafts that say how long is left to file. */
