@@ -5,7 +5,7 @@ import { attachments, certifications, organisations, productFamilies, users } fr
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { writeAudit } from '../../lib/audit';
-import { ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../../lib/errors';
 import { newId } from '../../lib/ids';
 import { todayFor } from '../../lib/business-day';
 import { reversedRangeMessage } from '@shared/schemas/messages';
@@ -44,6 +44,8 @@ export function createAgencyService(deps: AppDeps) {
 
   return {
     // ------------------------------------------------------------------ certifications
+    // An exact duplicate (same person, family, certificate number and validity) is refused:
+    // it would only double the row the expiry notices and the claim check read.
 
     listCertifications(ctx: RequestContext, filters: { userId?: string }): CertificationItem[] {
       requireAgency(ctx);
@@ -68,6 +70,7 @@ export function createAgencyService(deps: AppDeps) {
         if (!person) throw new ValidationError('Some fields need attention.', { userId: 'Choose a technician of this agency.' });
         checkFamily(t, body.familyId);
         checkAttachment(t, org, body.attachmentId);
+        refuseDuplicate(t, { userId: body.userId, familyId: body.familyId, certificateNumber: body.certificateNumber, validFrom: body.validFrom, validTo: body.validTo });
         t.insert(certifications)
           .values({
             id,
@@ -110,6 +113,7 @@ export function createAgencyService(deps: AppDeps) {
         if (next.validTo < next.validFrom) throw new ValidationError('Some fields need attention.', { validTo: reversedRangeMessage('end of validity', next.validTo, 'start of validity', next.validFrom) });
         if (body.familyId) checkFamily(t, body.familyId);
         if (body.attachmentId) checkAttachment(t, row.organisationId, body.attachmentId);
+        refuseDuplicate(t, { userId: row.userId, ...next }, id);
         t.update(certifications).set(next).where(eq(certifications.id, id)).run();
         const changed: Record<string, unknown> = {};
         for (const k of Object.keys(next) as (keyof typeof next)[]) if (next[k] !== row[k]) changed[k] = { from: row[k], to: next[k] };
@@ -195,4 +199,23 @@ export function updateOrganisationProfile(
     throw e;
   }
   writeAudit(t, deps.clock, { actorId: who.actorId, organisationId, action: 'agency.update', recordType: 'Agency', recordId: organisationId, outcome: 'success', ip: who.ip, detail: changed });
+}
+
+/** 409 when the person already holds this very certificate (same family, number and validity). */
+function refuseDuplicate(t: Db, c: { userId: string; familyId: string; certificateNumber: string; validFrom: string; validTo: string }, exceptId?: string): void {
+  const same = t
+    .select({ id: certifications.id })
+    .from(certifications)
+    .where(
+      and(
+        eq(certifications.userId, c.userId),
+        eq(certifications.familyId, c.familyId),
+        eq(certifications.certificateNumber, c.certificateNumber),
+        eq(certifications.validFrom, c.validFrom),
+        eq(certifications.validTo, c.validTo),
+        exceptId ? ne(certifications.id, exceptId) : undefined,
+      ),
+    )
+    .get();
+  if (same) throw new ConflictError(`This technician already holds certificate ${c.certificateNumber} for this product family, valid ${c.validFrom} to ${c.validTo}.`, 'duplicate_certification');
 }
