@@ -20,7 +20,8 @@ import { useAgency } from '../api/get-agency';
 import { useCreateAgency } from '../api/create-agency';
 import { useUpdateAgency } from '../api/update-agency';
 import { useInviteAgencyAdmin } from '../api/invite-agency-admin';
-import { AgencyFields } from './agency-fields';
+import { AgencyFields } from '@/components/forms/agency-fields';
+import { lookupPostalCode } from '../api/lookup-postal-code';
 import { Modal } from '@/components/ui/modal';
 import { TermsForm } from './terms-form';
 
@@ -113,7 +114,7 @@ function CreateAgencyForm({ onDone }: { onDone: (a: AgencyDetail) => void }) {
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       {formError && <Alert tone="error">{formError}</Alert>}
-      <AgencyFields register={register} errors={errors} getValues={getValues} setValue={setValue} />
+      <AgencyFields register={register} errors={errors} getValues={getValues} setValue={setValue} lookupPostalCode={lookupPostalCode} />
       <Field label="First agency admin's e-mail" hint="They get a one-time link to set their name and password" error={errors.adminEmail?.message}>
         {(p) => <Input {...p} type="email" {...register('adminEmail')} />}
       </Field>
@@ -266,7 +267,7 @@ function EditAgencyForm({ agency, onDone }: { agency: AgencyDetail; onDone: () =
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       {formError && <Alert tone="error">{formError}</Alert>}
-      <AgencyFields register={register} errors={formState.errors} getValues={getValues} setValue={setValue} currentTimeZone={agency.timeZone} />
+      <AgencyFields register={register} errors={formState.errors} getValues={getValues} setValue={setValue} currentTimeZone={agency.timeZone} lookupPostalCode={lookupPostalCode} />
       <label className="flex items-center gap-2 text-sm">
         <input type="checkbox" className="size-4" {...register('active')} /> Active (untick to end every session of the agency's users and stop their sign-in)
       </label>

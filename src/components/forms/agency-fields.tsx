@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { errorMessage } from '@/lib/api-client';
-import { lookupPostalCode } from '../api/lookup-postal-code';
+import type { PostalCodeLookup } from '@shared/schemas/admin';
 
 export interface AgencyFieldValues {
   name?: string;
@@ -23,19 +23,27 @@ export interface AgencyFieldValues {
 const blankToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? null : v);
 const toNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
-/** Name, contact and base of an agency, with the postal-code look-up that fills the coordinates. */
+/**
+ * Name, contact and base of an agency, with the postal-code look-up that fills the coordinates:
+ * the manufacturer admin's agency form and the agency's own profile both use it.
+ */
 export function AgencyFields<T extends AgencyFieldValues>({
   register,
   errors,
   getValues,
   setValue,
   currentTimeZone,
+  lookupPostalCode,
+  coordinateHint = { latitude: 'Empty: from the postal code', longitude: 'Empty: from the postal code' },
 }: {
   register: UseFormRegister<T>;
   errors: FieldErrors<T>;
   getValues: UseFormGetValues<T>;
   setValue: UseFormSetValue<T>;
   currentTimeZone?: string;
+  /** The caller's look-up operation (each feature keeps its own API file). */
+  lookupPostalCode: (code: string) => Promise<PostalCodeLookup | null>;
+  coordinateHint?: { latitude: string; longitude: string };
 }) {
   // The generic form is narrowed to the shared fields here.
   const reg = register as unknown as UseFormRegister<AgencyFieldValues>;
@@ -76,7 +84,7 @@ export function AgencyFields<T extends AgencyFieldValues>({
         </Field>
       </div>
       <Field label="Base address" error={err.addressLine?.message}>
-        {(p) => <Input {...p} {...reg('addressLine')} />}
+        {(p) => <Input {...p} autoComplete="street-address" {...reg('addressLine')} />}
       </Field>
       <div className="grid gap-4 sm:grid-cols-3">
         <Field label="City" error={err.city?.message}>
@@ -88,7 +96,7 @@ export function AgencyFields<T extends AgencyFieldValues>({
         <Field label="Postal code" error={err.postalCode?.message}>
           {(p) => (
             <div className="flex gap-2">
-              <Input {...p} {...reg('postalCode', { setValueAs: blankToNull })} />
+              <Input {...p} autoComplete="postal-code" {...reg('postalCode', { setValueAs: blankToNull })} />
               <Button variant="secondary" onClick={lookUp} pending={looking}>
                 Look up
               </Button>
@@ -97,10 +105,10 @@ export function AgencyFields<T extends AgencyFieldValues>({
         </Field>
       </div>
       <div className="grid gap-4 sm:grid-cols-3">
-        <Field label="Latitude" hint="Empty: from the postal code" error={err.latitude?.message}>
+        <Field label="Latitude" hint={coordinateHint.latitude} error={err.latitude?.message}>
           {(p) => <Input {...p} inputMode="decimal" {...reg('latitude', { setValueAs: toNumber })} />}
         </Field>
-        <Field label="Longitude" hint="Empty: from the postal code" error={err.longitude?.message}>
+        <Field label="Longitude" hint={coordinateHint.longitude} error={err.longitude?.message}>
           {(p) => <Input {...p} inputMode="decimal" {...reg('longitude', { setValueAs: toNumber })} />}
         </Field>
         <Field label="Time zone" error={err.timeZone?.message}>
