@@ -1016,6 +1016,12 @@ function adminRoutes(): RouteCase[] {
     r('POST', '/repair-codes', ({ f }) => ({ body: { code: code(f, 'TR'), familyId: f.own.familyId, description: 'Table repair', allowedHours: 1.5 } })),
     r('PATCH', '/repair-codes/:id', ({ f }) => ({ params: { id: f.own.repairCodeId }, body: { description: uniq(f, 'Table repair ') } })),
     r('GET', '/repair-codes/:id/allowances', ({ f }) => ({ params: { id: f.seeded.repairCodeId } })),
+    r('GET', '/mileage-rates', () => ({})),
+    r('POST', '/mileage-rates', ({ f }) => {
+      const y = 2200 + f.n();
+      return { body: { currency: 'CAD', unit: 'km', effectiveFrom: `${y}-01-01`, effectiveTo: `${y}-12-31`, rateCents: '41.5', source: 'Matrix fixture rate' } };
+    }),
+    r('PATCH', '/mileage-rates/:id', () => ({ params: { id: 'mr-usd-2026' }, body: { effectiveTo: '2026-12-31', reason: 'Matrix fixture: same last day' } })),
     r('GET', '/agencies', () => ({})),
     r('POST', '/agencies', ({ f }) => ({
       body: { name: uniq(f, 'Table Agency '), contactEmail: null, addressLine: null, city: null, region: null, postalCode: null, timeZone: 'America/Denver', adminEmail: `agency-admin-${f.n()}@fixture.test` },

@@ -5,7 +5,7 @@ import { parts, repairCodes } from '../../db/schema/index';
 import { requireCtx } from '../../lib/context';
 import { ForbiddenError, NotFoundError } from '../../lib/errors';
 import { requireUser } from '../../middleware/authenticate';
-import { parseBody } from '../../middleware/validate';
+import { parseBody, parseQuery } from '../../middleware/validate';
 import { bodyHas, requireRecentAuth } from '../../middleware/require-recent-auth';
 import { clientAddress } from '../../middleware/rate-limit';
 import {
@@ -34,6 +34,8 @@ import { createAgenciesService } from './agencies.service';
 import { allowanceHistory, priceHistory } from './catalog.queries';
 import { createApprovalLimitsService } from './approval-limits.service';
 import { approvalLimitSchema } from '@shared/schemas/approval-limits';
+import { createMileageRateSchema, endMileageRateSchema, mileageRatesQuerySchema } from '@shared/schemas/mileage-rates';
+import { createMileageRatesService } from './mileage-rates.service';
 
 /** /api/admin: the manufacturer admin's catalogue, agencies and contract terms, and manufacturer users. */
 export function adminRouter(deps: AppDeps): Router {
@@ -42,6 +44,7 @@ export function adminRouter(deps: AppDeps): Router {
   const agencies = createAgenciesService(deps, invitations);
   const usersService = createUsersService(deps);
   const limits = createApprovalLimitsService(deps);
+  const mileage = createMileageRatesService(deps);
   const r = Router();
   r.use(requireUser);
   // Everything here is the manufacturer admin's: refuse others before reading any body.
@@ -128,6 +131,19 @@ export function adminRouter(deps: AppDeps): Router {
     catalog.listFamilies(ctx);
     if (!deps.db.select({ id: repairCodes.id }).from(repairCodes).where(eq(repairCodes.id, req.params.id)).get()) throw new NotFoundError('No such repair code.');
     res.json({ items: allowanceHistory(deps.db, req.params.id) });
+  });
+
+  // ---------------------------------------------------------------- mileage rates (money rules: step-up on writes)
+  r.get('/mileage-rates', (req, res) => {
+    res.json(mileage.list(requireCtx(req), parseQuery(mileageRatesQuerySchema, req.query)));
+  });
+  r.post('/mileage-rates', stepUp, (req, res) => {
+    const ctx = requireCtx(req);
+    res.status(201).json(mileage.create(ctx, parseBody(createMileageRateSchema, req.body), ip(req)));
+  });
+  r.patch('/mileage-rates/:id', stepUp, (req, res) => {
+    const ctx = requireCtx(req);
+    res.json(mileage.end(ctx, String(req.params.id), parseBody(endMileageRateSchema, req.body), ip(req)));
   });
 
   // ---------------------------------------------------------------- agencies and contract terms
