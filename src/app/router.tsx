@@ -50,6 +50,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: 'users', lazy: () => import('./routes/agency-users').then((m) => ({ loader: m.agencyUsersLoader(queryClient), Component: m.AgencyUsersRoute })) },
                 { path: 'catalogue', lazy: () => import('./routes/catalogue').then((m) => ({ loader: m.catalogueLoader(queryClient), Component: m.CatalogueRoute })) },
                 { path: 'agencies', lazy: () => import('./routes/agencies').then((m) => ({ loader: m.agenciesLoader(queryClient), Component: m.AgenciesRoute })) },
+                {
+                  path: 'account/security',
+                  lazy: () => import('./routes/account-security').then((m) => ({ loader: m.accountSecurityLoader(queryClient), Component: m.AccountSecurityRoute })),
+                },
                 { path: '*', Component: NotFoundRoute },
               ],
             },

@@ -15,6 +15,7 @@ export const paths = {
   agencies: '/agencies',
   acceptInvitation: '/accept-invitation',
   mailbox: '/dev/mailbox',
+  accountSecurity: '/account/security',
 } as const;
 
 /** Sign-in path that returns the user to `to` afterwards. */

@@ -18,7 +18,8 @@ function renderShell(role: Role, path = '/') {
 
 function navLabels(): string[] {
   const nav = screen.getByRole('navigation', { name: 'Main' });
-  return within(nav)
+  // the sections of the app; the account's own links (security, sign out) sit apart
+  return within(within(nav).getAllByRole('list')[0]!)
     .getAllByRole('link')
     .map((a) => a.textContent ?? '');
 }
@@ -73,5 +74,12 @@ describe('AppShell navigation', () => {
     expect(toggle).toHaveAttribute('aria-expanded', 'true');
     await user.click(screen.getAllByRole('button', { name: 'Sign out' })[0]);
     expect(onSignOut).toHaveBeenCalledTimes(1);
+  });
+
+  it.each<Role>(['technician', 'agency_admin', 'reviewer', 'accountant', 'manufacturer_admin'])('gives a %s a link to the account security page', (role) => {
+    renderShell(role);
+    const links = screen.getAllByRole('link', { name: 'Security' });
+    expect(links.length).toBeGreaterThan(0);
+    for (const a of links) expect(a).toHaveAttribute('href', '/account/security');
   });
 });

@@ -4,7 +4,7 @@ import { roleLabels, type AppAbility, type Role } from '@shared/permissions/abil
 import { paths } from '@/config/paths';
 import { useAppAbility } from '@/lib/ability';
 import { cx } from '@/lib/cx';
-import { Button } from '@/components/ui/button';
+import { Button, buttonClass } from '@/components/ui/button';
 import { BrandMark } from './brand-mark';
 
 export interface NavItem {
@@ -86,7 +86,10 @@ export function AppShell({ user, organisation, onSignOut, signingOut = false, ch
               <span className="block font-medium">{user.name}</span>
               <span className="block text-ink-200">{roleLabels[user.role] ?? user.role}</span>
             </p>
-            <div className="hidden md:block">
+            <div className="hidden items-center gap-2 md:flex">
+              <Link to={paths.accountSecurity} className={buttonClass('inverse', 'sm', 'inline-flex items-center')} aria-current={location.pathname === paths.accountSecurity ? 'page' : undefined}>
+                Security
+              </Link>
               <Button variant="inverse" size="sm" onClick={onSignOut} pending={signingOut}>
                 Sign out
               </Button>
@@ -130,9 +133,14 @@ export function AppShell({ user, organisation, onSignOut, signingOut = false, ch
               <span className="font-medium">{user.name}</span> · <span className="text-ink-200">{roleLabels[user.role] ?? user.role}</span>
             </p>
             <p className="text-sm text-ink-200">{organisation.name}</p>
-            <Button variant="inverse" size="sm" onClick={onSignOut} pending={signingOut} className="mt-2">
-              Sign out
-            </Button>
+            <div className="mt-2 flex flex-wrap gap-2">
+              <Link to={paths.accountSecurity} className={buttonClass('inverse', 'sm', 'inline-flex items-center')} aria-current={location.pathname === paths.accountSecurity ? 'page' : undefined}>
+                Security
+              </Link>
+              <Button variant="inverse" size="sm" onClick={onSignOut} pending={signingOut}>
+                Sign out
+              </Button>
+            </div>
           </div>
         </nav>
       </header>
