@@ -90,9 +90,9 @@ function bulkPaidClaims(n: number): void {
   const now = '2026-06-15T12:00:00.000Z';
   db.transaction(() => {
     db.prepare(
-      `insert into payment_runs (id, number, agency_id, state, total_cents, currency, created_by, payment_date, reference, paid_by, paid_at, created_at)
-       values (?, 'PR-2026-9999', ?, 'paid', ?, 'USD', ?, '2026-06-13', 'ACH bulk', ?, ?, ?)`,
-    ).run(runId, harborview, n * 15_000, accountant, accountant, now, now);
+      `insert into payment_runs (id, number, agency_id, payee_name, state, total_cents, currency, created_by, payment_date, reference, paid_by, paid_at, created_at)
+       values (?, 'PR-2026-9999', ?, (select name from organisations where id = ?), 'paid', ?, 'USD', ?, '2026-06-13', 'ACH bulk', ?, ?, ?)`,
+    ).run(runId, harborview, harborview, n * 15_000, accountant, accountant, now, now);
     const claim = db.prepare(
       `insert into claims (id, number, agency_id, technician_id, unit_id, state, version, repair_date, currency, claimed_total_cents,
          approved_total_cents, approved_labor_cents, approved_travel_cents, approved_parts_cents, paid_at, created_at, updated_at)
