@@ -7,12 +7,14 @@ import { FamiliesPanel } from '@/features/admin/components/families-panel';
 import { ModelsPanel } from '@/features/admin/components/models-panel';
 import { PartsPanel } from '@/features/admin/components/parts-panel';
 import { RepairCodesPanel } from '@/features/admin/components/repair-codes-panel';
+import { MileageRatesPanel } from '@/features/admin/components/mileage-rates-panel';
 
 const tabs = [
   { key: 'repair-codes', label: 'Repair codes' },
   { key: 'parts', label: 'Parts' },
   { key: 'models', label: 'Models' },
   { key: 'families', label: 'Product families' },
+  { key: 'mileage', label: 'Mileage rates' },
 ] as const;
 type TabKey = (typeof tabs)[number]['key'];
 
@@ -54,6 +56,7 @@ export function CatalogueRoute() {
       {tab === 'parts' && <PartsPanel />}
       {tab === 'models' && <ModelsPanel />}
       {tab === 'families' && <FamiliesPanel />}
+      {tab === 'mileage' && <MileageRatesPanel />}
     </div>
   );
 }
