@@ -149,3 +149,34 @@ test('the manufacturer admin changes a repair code allowance; a claim repaired f
   expect((await page.request.patch(`/api/admin/repair-codes/${repairCodeId}`, { data: { active: false } })).status()).toBe(200);
   await tech.close();
 });
+
+test('the manufacturer admin adds a mileage rate in the catalogue and sees the days no rate covers', async ({ page }) => {
+  await signIn(page, 'admin@larkfield.test');
+  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Catalogue' }).click();
+  await page.getByRole('tab', { name: 'Mileage rates' }).click();
+  const table = page.getByRole('table', { name: 'Mileage rates' });
+  await expect(table.getByRole('row').filter({ hasText: 'IRS Notice 2024-08' })).toContainText('67 cents per mile');
+
+  // a per-kilometre rate for a currency with no rate yet, in a year of its own (no overlap on re-runs)
+  const year = 2100 + (Date.now() % 800);
+  await page.getByRole('button', { name: 'New rate' }).click();
+  await page.getByLabel(/^Currency/).fill('CAD');
+  await page.getByLabel(/^Distance unit/).selectOption('km');
+  await page.getByLabel(/^First day in force/).fill(`${year}-01-01`);
+  await page.getByLabel(/^Last day in force/).fill(`${year}-12-31`);
+  await page.getByLabel(/^Rate in cents/).fill('41.5');
+  await page.getByLabel(/^Source/).fill('Test rate added by the browser journey');
+  await page.getByRole('button', { name: 'Add the rate' }).click();
+  await expect(table.getByRole('row').filter({ hasText: 'Test rate added by the browser journey' }).filter({ hasText: String(year) })).toContainText('41.5 cents per kilometre');
+  await expect(page.getByText('No CAD rate is in force today', { exact: false })).toBeVisible();
+
+  // the same period again is refused with the period in force named on the field
+  await page.getByRole('button', { name: 'New rate' }).click();
+  await page.getByLabel(/^Currency/).fill('CAD');
+  await page.getByLabel(/^Distance unit/).selectOption('km');
+  await page.getByLabel(/^First day in force/).fill(`${year}-06-01`);
+  await page.getByLabel(/^Rate in cents/).fill('42');
+  await page.getByLabel(/^Source/).fill('Overlapping test rate');
+  await page.getByRole('button', { name: 'Add the rate' }).click();
+  await expect(page.getByText(`in force ${year}-01-01 to ${year}-12-31`).first()).toBeVisible();
+});
