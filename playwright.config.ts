@@ -4,7 +4,7 @@ import { defineConfig, devices } from '@playwright/test';
 const PORT = Number(process.env.E2E_PORT ?? 3210);
 const baseURL = `http://localhost:${PORT}`;
 const onCi = !!process.env.CI;
-const credentialChanges = /password-reset\.spec\.ts$/;
+const credentialChanges = /(password-reset|passkey)\.spec\.ts$/;
 
 /** Debian's chromium (no browser download is possible here), headless, quiet. */
 const chromium = {
