@@ -135,4 +135,15 @@ describe('mileage rates kept by the manufacturer admin', () => {
       expect((await a.patch('/api/admin/mileage-rates/mr-usd-2026').send({ effectiveTo: '2026-12-31' })).status, who).toBe(403);
     }
   });
+
+  it('asks for the password or a code again before a change once the sign-in is older than 5 minutes', async () => {
+    t.clock.advance(6 * 60_000);
+    expect((await mfr.get('/api/admin/mileage-rates')).status).toBe(200);
+    const add = await mfr.post('/api/admin/mileage-rates').send({ currency: 'CAD', unit: 'km', effectiveFrom: '2060-01-01', rateCents: '50', source: 'Step-up check' });
+    expect(add.status).toBe(401);
+    expect(add.body.error.code).toBe('step_up_required');
+    const end = await mfr.patch('/api/admin/mileage-rates/mr-usd-2026').send({ effectiveTo: '2026-12-31' });
+    expect(end.status).toBe(401);
+    expect(end.body.error.code).toBe('step_up_required');
+  });
 });
