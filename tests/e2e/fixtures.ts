@@ -151,6 +151,8 @@ class ScreenWatch {
   private async check(page: Page): Promise<void> {
     if (page.isClosed()) return;
     const url = page.url();
+    // a page that never left about:blank (opened, then not used) shows no screen of the app
+    if (!/^https?:/.test(url)) return;
     try {
       await page.waitForLoadState('load', { timeout: 10_000 });
       await page.waitForLoadState('networkidle', { timeout: 2_000 }).catch(() => undefined);
