@@ -147,7 +147,11 @@ describe('demo seed: catalogue, people and places', () => {
     const text = lines.join('\n');
     for (const s of demoSignIns()) expect(text).toContain(s.email);
     expect(text).toContain(DEMO_PASSWORD);
-    expect(lines).toHaveLength(2 + 7);
+    // a title, a header, one row per account, then three lines on the authenticator code
+    expect(lines).toHaveLength(2 + 7 + 3);
+    const marked = lines.filter((l) => l.includes('@') && l.endsWith('(+ authenticator code)'));
+    expect(marked.map((l) => l.trim().split(/\s+/)[0])).toEqual(['accounts@larkfield.test', 'admin@larkfield.test']);
+    expect(text).toContain('npm run demo:code -- accounts@larkfield.test');
   });
 });
 
