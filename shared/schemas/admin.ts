@@ -133,6 +133,12 @@ export const updateCertificationSchema = z
   .refine(validToAfterFrom, validToMessage);
 export type UpdateCertificationBody = z.infer<typeof updateCertificationSchema>;
 
+/** Revoking a certificate needs a reason; it is kept on the certificate and in the audit trail. */
+export const revokeCertificationSchema = z.strictObject({
+  reason: oneLine({ max: 500, label: 'The reason', required: 'Enter why the certificate is revoked.' }),
+});
+export type RevokeCertificationBody = z.infer<typeof revokeCertificationSchema>;
+
 export const certificationListQuerySchema = z.object({ userId: z.string().max(64).optional() });
 
 export interface CertificationItem {
@@ -149,6 +155,10 @@ export interface CertificationItem {
   state: CertificationState;
   daysLeft: number;
   createdAt: string;
+  /** Set once revoked: the certificate no longer counts anywhere. */
+  revokedAt: string | null;
+  revokedByName: string | null;
+  revokeReason: string | null;
 }
 
 // ---------------------------------------------------------------------------- agency profile and addresses

@@ -208,6 +208,8 @@ export interface Fixtures {
     approvedWithReturn(status?: 'awaiting' | 'shipped'): { claimId: string; lineId: string };
     openRun(): Promise<string>;
     user(org: 'A' | 'B' | 'M', role: string): { id: string; email: string };
+    /** A certificate of a new technician of agency A, not revoked. */
+    certification(): string;
     invitation(org: 'A' | 'M', role: string): { id: string; token: string };
     passwordReset(): { token: string };
     spec(): Promise<string>;
@@ -347,6 +349,22 @@ export async function makeFixtures(t: TestApp): Promise<Fixtures> {
     );
     return { id, token };
   };
+  const certification = () => {
+    const u = freshUser('A', 'technician');
+    const id = newId();
+    const fam = one<{ id: string }>("select id from product_families where code = 'GRL'").id;
+    db.prepare('insert into certifications (id, organisation_id, user_id, family_id, certificate_number, valid_from, valid_to, created_at) values (?, ?, ?, ?, ?, ?, ?, ?)').run(
+      id,
+      org.A,
+      u.id,
+      fam,
+      `FIX-${n()}`,
+      '2026-01-01',
+      '2028-12-31',
+      new Date().toISOString(),
+    );
+    return id;
+  };
   const passwordReset = () => {
     const u = freshUser('A', 'technician');
     const token = newToken().token;
@@ -437,7 +455,7 @@ export async function makeFixtures(t: TestApp): Promise<Fixtures> {
     n,
     version,
     one,
-    fresh: { draft, submitted, inReview, approved, approvedWithReturn, openRun, user: freshUser, invitation, passwordReset, spec, terms, png },
+    fresh: { draft, submitted, inReview, approved, approvedWithReturn, openRun, user: freshUser, certification, invitation, passwordReset, spec, terms, png },
   };
 }
 
@@ -851,6 +869,13 @@ export const routes: RouteCase[] = [
     route: '/api/agency/certifications/:id',
     ids: { id: 'certification' },
     build: ({ f }) => ({ params: { id: f.certificationA }, body: { certificateNumber: uniq(f, 'RENEWED-') } }),
+    expect: x(401, 403, OK, 403, 403, 403, 403),
+  },
+  {
+    method: 'POST',
+    route: '/api/agency/certifications/:id/revocation',
+    ids: { id: 'certification' },
+    build: ({ f }) => ({ params: { id: f.fresh.certification() }, body: { reason: 'Issued in error' } }),
     expect: x(401, 403, OK, 403, 403, 403, 403),
   },
   { method: 'GET', route: '/api/agency/families', build: () => ({}), expect: x(401, OK, OK, OK, 403, 403, 403) },

@@ -78,6 +78,10 @@ export const certifications = sqliteTable(
     validTo: text('valid_to').notNull(),
     attachmentId: text('attachment_id'),
     createdAt: text('created_at').notNull(),
+    /** Set when the agency admin withdraws the certificate; a revoked one no longer counts anywhere. */
+    revokedAt: text('revoked_at'),
+    revokedBy: text('revoked_by').references(() => users.id),
+    revokeReason: text('revoke_reason'),
   },
   (t) => [index('certifications_user_idx').on(t.userId, t.familyId), index('certifications_org_idx').on(t.organisationId)],
 );

@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
+import { aliasedTable, and, asc, eq, gte, inArray, isNull, lte, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import { certifications, organisations, productFamilies, users } from '../../db/schema/index';
 import { abilityToSql } from '../../lib/casl-to-sql';
@@ -95,11 +95,15 @@ export function listUsers(db: Db, ability: AppAbility, organisationId: string, t
         })
         .from(certifications)
         .innerJoin(productFamilies, eq(productFamilies.id, certifications.familyId))
-        .where(and(eq(certifications.organisationId, organisationId), inArray(certifications.userId, rows.map((r) => r.id))))
+        .where(and(eq(certifications.organisationId, organisationId), inArray(certifications.userId, rows.map((r) => r.id)), isNull(certifications.revokedAt)))
         .all()
     : [];
   return rows.map((u) => ({ ...u, certification: summariseCertifications(certs.filter((c) => c.userId === u.id), today) }));
 }
+
+/** A certificate that has not been revoked: the only kind that counts. */
+export const notRevoked = isNull(certifications.revokedAt);
+const revoker = aliasedTable(users, 'revoker');
 
 const certificationSelect = {
   id: certifications.id,
@@ -113,6 +117,9 @@ const certificationSelect = {
   validTo: certifications.validTo,
   attachmentId: certifications.attachmentId,
   createdAt: certifications.createdAt,
+  revokedAt: certifications.revokedAt,
+  revokedByName: revoker.name,
+  revokeReason: certifications.revokeReason,
 };
 
 type CertificationSelectRow = Omit<CertificationItem, 'state' | 'daysLeft'>;
@@ -131,6 +138,7 @@ export function listCertifications(db: Db, ability: AppAbility, filters: { userI
     .from(certifications)
     .innerJoin(users, eq(users.id, certifications.userId))
     .innerJoin(productFamilies, eq(productFamilies.id, certifications.familyId))
+    .leftJoin(revoker, eq(revoker.id, certifications.revokedBy))
     .where(and(...where))
     .orderBy(asc(users.name), asc(productFamilies.code), sql`${certifications.validTo} desc`)
     .all()
@@ -151,6 +159,7 @@ export function getCertificationItem(db: Db, id: string, today: string): Certifi
     .from(certifications)
     .innerJoin(users, eq(users.id, certifications.userId))
     .innerJoin(productFamilies, eq(productFamilies.id, certifications.familyId))
+    .leftJoin(revoker, eq(revoker.id, certifications.revokedBy))
     .where(eq(certifications.id, id))
     .get();
   return row ? withState(today)(row) : undefined;
@@ -167,14 +176,16 @@ export function expiringCertifications(db: Db, organisationId: string, today: st
     .from(certifications)
     .innerJoin(users, eq(users.id, certifications.userId))
     .innerJoin(productFamilies, eq(productFamilies.id, certifications.familyId))
+    .leftJoin(revoker, eq(revoker.id, certifications.revokedBy))
     .where(
       and(
         eq(certifications.organisationId, organisationId),
         eq(users.active, true),
+        notRevoked,
         lte(certifications.validFrom, today),
         gte(certifications.validTo, today),
         lte(certifications.validTo, addDays(today, days)),
-        sql`not exists (select 1 from certifications as later where later.user_id = ${certifications.userId} and later.family_id = ${certifications.familyId} and later.valid_to > ${certifications.validTo})`,
+        sql`not exists (select 1 from certifications as later where later.user_id = ${certifications.userId} and later.family_id = ${certifications.familyId} and later.valid_to > ${certifications.validTo} and later.revoked_at is null)`,
       ),
     )
     .orderBy(asc(certifications.validTo), asc(users.name))
@@ -187,7 +198,7 @@ export function isCertified(db: Db, userId: string, familyId: string, date: stri
   const row = db
     .select({ id: certifications.id })
     .from(certifications)
-    .where(and(eq(certifications.userId, userId), eq(certifications.familyId, familyId), lte(certifications.validFrom, date), gte(certifications.validTo, date)))
+    .where(and(eq(certifications.userId, userId), eq(certifications.familyId, familyId), lte(certifications.validFrom, date), gte(certifications.validTo, date), notRevoked))
     .get();
   return row !== undefined;
 }
@@ -198,7 +209,7 @@ export function certificationsOfTechnician(db: Db, userId: string) {
     .select({ familyId: certifications.familyId, familyCode: productFamilies.code, validFrom: certifications.validFrom, validTo: certifications.validTo })
     .from(certifications)
     .innerJoin(productFamilies, eq(productFamilies.id, certifications.familyId))
-    .where(eq(certifications.userId, userId))
+    .where(and(eq(certifications.userId, userId), notRevoked))
     .all();
 }
 

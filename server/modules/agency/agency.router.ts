@@ -13,6 +13,7 @@ import {
   createCertificationSchema,
   inviteBodySchema,
   postalCodeSchema,
+  revokeCertificationSchema,
   updateAgencyProfileSchema,
   updateCertificationSchema,
   updateUserSchema,
@@ -74,6 +75,13 @@ export function agencyRouter(deps: AppDeps): Router {
     mayWrite(requireCtx(req), 'update');
     const body = parseBody(updateCertificationSchema, req.body);
     res.json(agency.updateCertification(requireCtx(req), req.params.id, body, clientAddress(req)));
+  });
+
+  /** Revoking keeps the certificate on file, marked revoked with the reason; it no longer counts. */
+  r.post('/certifications/:id/revocation', (req, res) => {
+    mayWrite(requireCtx(req), 'update');
+    const body = parseBody(revokeCertificationSchema, req.body);
+    res.json(agency.revokeCertification(requireCtx(req), req.params.id, body, clientAddress(req)));
   });
 
   /** Product families to certify technicians for (the catalogue's active ones). */

@@ -13,10 +13,11 @@ import type {
   AgencyProfile,
   CertificationItem,
   CreateCertificationBody,
+  RevokeCertificationBody,
   UpdateAgencyProfileBody,
   UpdateCertificationBody,
 } from '@shared/schemas/admin';
-import { expiringCertifications, findVisibleCertification, getAgencyProfile, getCertificationItem, listCertifications } from './agency.queries';
+import { expiringCertifications, findVisibleCertification, getAgencyProfile, getCertificationItem, listCertifications, notRevoked } from './agency.queries';
 import { resolveAddress } from './postal-code.service';
 import { nameKey } from '@shared/schemas/text';
 
@@ -103,6 +104,7 @@ export function createAgencyService(deps: AppDeps) {
       tx(db, (t) => {
         const row = findVisibleCertification(t, ctx.ability, 'update', id);
         if (!row) throw new NotFoundError('No such certification.');
+        if (row.revokedAt) throw new ConflictError('This certificate was revoked and can no longer be changed; record a new one instead.', 'certification_revoked');
         const next = {
           familyId: body.familyId ?? row.familyId,
           certificateNumber: body.certificateNumber ?? row.certificateNumber,
@@ -118,6 +120,29 @@ export function createAgencyService(deps: AppDeps) {
         const changed: Record<string, unknown> = {};
         for (const k of Object.keys(next) as (keyof typeof next)[]) if (next[k] !== row[k]) changed[k] = { from: row[k], to: next[k] };
         writeAudit(t, clock, { actorId: ctx.user.id, organisationId: row.organisationId, action: 'certification.update', recordType: 'Certification', recordId: id, outcome: 'success', ip, detail: changed });
+      });
+      return getCertificationItem(db, id, todayFor(db, clock, ctx.user.organisationId)) as CertificationItem;
+    },
+
+    /** Withdraws a certificate (kept for the record, with who, when and why); it stops counting at once. */
+    revokeCertification(ctx: RequestContext, id: string, body: RevokeCertificationBody, ip: string): CertificationItem {
+      requireAgency(ctx);
+      tx(db, (t) => {
+        const row = findVisibleCertification(t, ctx.ability, 'update', id);
+        if (!row) throw new NotFoundError('No such certification.');
+        if (row.revokedAt) throw new ConflictError('This certificate is already revoked.', 'certification_revoked');
+        const at = clock.now().toISOString();
+        t.update(certifications).set({ revokedAt: at, revokedBy: ctx.user.id, revokeReason: body.reason }).where(eq(certifications.id, id)).run();
+        writeAudit(t, clock, {
+          actorId: ctx.user.id,
+          organisationId: row.organisationId,
+          action: 'certification.revoke',
+          recordType: 'Certification',
+          recordId: id,
+          outcome: 'success',
+          ip,
+          detail: { userId: row.userId, familyId: row.familyId, certificateNumber: row.certificateNumber, reason: body.reason },
+        });
       });
       return getCertificationItem(db, id, todayFor(db, clock, ctx.user.organisationId)) as CertificationItem;
     },
@@ -213,6 +238,7 @@ function refuseDuplicate(t: Db, c: { userId: string; familyId: string; certifica
         eq(certifications.certificateNumber, c.certificateNumber),
         eq(certifications.validFrom, c.validFrom),
         eq(certifications.validTo, c.validTo),
+        notRevoked,
         exceptId ? ne(certifications.id, exceptId) : undefined,
       ),
     )

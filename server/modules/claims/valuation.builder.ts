@@ -162,7 +162,8 @@ export function loadClaimInputs(db: Db, claim: Claim): ClaimInputs {
   const certs = db
     .select({ familyId: certifications.familyId, validFrom: certifications.validFrom, validTo: certifications.validTo })
     .from(certifications)
-    .where(eq(certifications.userId, claim.technicianId))
+    // a revoked certificate no longer counts
+    .where(and(eq(certifications.userId, claim.technicianId), isNull(certifications.revokedAt)))
     .all();
 
   const codes = [...new Set(labor.map((l) => l.code))];

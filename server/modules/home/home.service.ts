@@ -2,7 +2,7 @@
  * GET /api/home: what needs this person's action now, per role. Every claim count and list is
  * read through the user's claim scope, so a card never counts what the user may not see.
  */
-import { and, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
+import { and, eq, gte, inArray, isNull, lte, sql, type SQL } from 'drizzle-orm';
 import type { AppDeps } from '../../lib/deps';
 import type { RequestContext } from '../../lib/context';
 import { todayFor } from '../../lib/business-day';
@@ -94,7 +94,7 @@ export function createHomeService(deps: AppDeps) {
         const soon = db
           .select({ n: sql<number>`count(*)` })
           .from(certifications)
-          .where(and(eq(certifications.organisationId, user.organisationId), gte(certifications.validTo, t), lte(certifications.validTo, addDays(t, 30))))
+          .where(and(eq(certifications.organisationId, user.organisationId), isNull(certifications.revokedAt), gte(certifications.validTo, t), lte(certifications.validTo, addDays(t, 30))))
           .get();
         if (soon && soon.n > 0) {
           notices.push({ key: 'certifications_expiring', message: `${soon.n} technician certification${soon.n === 1 ? '' : 's'} expire within 30 days.`, href: '/users', tone: 'warning' });
