@@ -4,67 +4,35 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { createFamilySchema, updateFamilySchema, type FamilyItem } from '@shared/schemas/admin';
 import { Alert } from '@/components/ui/alert';
-import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { Skeleton } from '@/components/ui/skeleton';
-import { Table, TBody, Td, Th, THead, Tr } from '@/components/ui/table';
-import { errorMessage } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
+import { ActiveCheckbox, CataloguePanel, StatusBadge } from './catalogue-panel';
 import { useFamilies } from '../api/get-families';
 import { useCreateFamily } from '../api/create-family';
 import { useUpdateFamily } from '../api/update-family';
-import { Modal } from '@/components/ui/modal';
 
 export function FamiliesPanel() {
-  const families = useFamilies();
-  const [editing, setEditing] = useState<FamilyItem | 'new' | null>(null);
   return (
-    <Card>
-      <CardHeader title="Product families" description="Retired families stay on old claims and certificates; they are not offered for new ones." actions={<Button onClick={() => setEditing('new')}>New family</Button>} />
-      {families.isPending && <Skeleton className="m-4 h-32" />}
-      {families.isError && (
-        <CardBody>
-          <Alert tone="error">{errorMessage(families.error)}</Alert>
-        </CardBody>
-      )}
-      {families.data && (
-        <Table caption="Product families">
-          <THead>
-            <Tr>
-              <Th>Code</Th>
-              <Th>Name</Th>
-              <Th>Fuel</Th>
-              <Th>Status</Th>
-              <Th>
-                Actions
-              </Th>
-            </Tr>
-          </THead>
-          <TBody>
-            {families.data.map((f) => (
-              <Tr key={f.id}>
-                <Td className="font-mono">{f.code}</Td>
-                <Td>{f.name}</Td>
-                <Td>{f.fuel === 'gas' ? 'Gas' : 'Electric'}</Td>
-                <Td>{f.active ? <Badge tone="green">Active</Badge> : <Badge tone="slate">Retired</Badge>}</Td>
-                <Td className="text-right">
-                  <Button size="sm" variant="secondary" onClick={() => setEditing(f)} aria-label={`Edit family ${f.code}`}>
-                    Edit
-                  </Button>
-                </Td>
-              </Tr>
-            ))}
-          </TBody>
-        </Table>
-      )}
-      <Modal open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New product family' : `Edit family ${editing?.code ?? ''}`}>
-        {editing === 'new' && <CreateFamilyForm onDone={() => setEditing(null)} />}
-        {editing && editing !== 'new' && <EditFamilyForm family={editing} onDone={() => setEditing(null)} />}
-      </Modal>
-    </Card>
+    <CataloguePanel<FamilyItem>
+      title="Product families"
+      description="Retired families stay on old claims and certificates; they are not offered for new ones."
+      caption="Product families"
+      newLabel="New family"
+      newTitle="New product family"
+      editLabel={(f) => `Edit family ${f?.code ?? ''}`}
+      query={useFamilies()}
+      skeletonClassName="m-4 h-32"
+      columns={[
+        { header: 'Code', cellClassName: 'font-mono', cell: (f) => f.code },
+        { header: 'Name', cell: (f) => f.name },
+        { header: 'Fuel', cell: (f) => (f.fuel === 'gas' ? 'Gas' : 'Electric') },
+        { header: 'Status', cell: (f) => <StatusBadge active={f.active} /> },
+      ]}
+      renderCreate={(done) => <CreateFamilyForm onDone={done} />}
+      renderEdit={(f, done) => <EditFamilyForm family={f} onDone={done} />}
+    />
   );
 }
 
@@ -126,9 +94,7 @@ function EditFamilyForm({ family, onDone }: { family: FamilyItem; onDone: () => 
           </Select>
         )}
       </Field>
-      <label className="flex items-center gap-2 text-sm">
-        <input type="checkbox" className="size-4" {...register('active')} /> Active (untick to retire)
-      </label>
+      <ActiveCheckbox registration={register('active')} />
       <Button type="submit" pending={update.isPending}>
         Save
       </Button>

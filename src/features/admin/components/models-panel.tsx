@@ -4,15 +4,12 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
 import { createModelSchema, createReadingSpecSchema, readingPhases, readingUnits, updateModelSchema, type ModelItem, type ReadingSpecItem } from '@shared/schemas/admin';
 import { Alert } from '@/components/ui/alert';
-import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { Skeleton } from '@/components/ui/skeleton';
-import { Table, TBody, Td, Th, THead, Tr } from '@/components/ui/table';
 import { errorMessage } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
+import { CataloguePanel, StatusBadge } from './catalogue-panel';
 import { useModels } from '../api/get-models';
 import { useFamilies } from '../api/get-families';
 import { useParts } from '../api/get-parts';
@@ -21,75 +18,46 @@ import { useUpdateModel } from '../api/update-model';
 import { useCreateReadingSpec } from '../api/create-reading-spec';
 import { useUpdateReadingSpec } from '../api/update-reading-spec';
 import { useDeleteReadingSpec } from '../api/delete-reading-spec';
-import { Modal } from '@/components/ui/modal';
 
 const phaseLabel: Record<(typeof readingPhases)[number], string> = { before: 'Before repair', after: 'After repair', both: 'Before and after' };
 
 /** Models with their warranty terms, longer component terms and the readings a repair needs. */
 export function ModelsPanel() {
-  const models = useModels();
-  const [editing, setEditing] = useState<string | 'new' | null>(null);
-  const current = models.data?.find((m) => m.id === editing);
   return (
-    <Card>
-      <CardHeader
-        title="Models"
-        description="Terms in months: parts and labor count from the install date, the cap from the ship date."
-        actions={<Button onClick={() => setEditing('new')}>New model</Button>}
-      />
-      {models.isPending && <Skeleton className="m-4 h-40" />}
-      {models.isError && (
-        <CardBody>
-          <Alert tone="error">{errorMessage(models.error)}</Alert>
-        </CardBody>
+    <CataloguePanel<ModelItem>
+      title="Models"
+      description="Terms in months: parts and labor count from the install date, the cap from the ship date."
+      caption="Models"
+      newLabel="New model"
+      newTitle="New model"
+      editLabel={(m) => `Edit model ${m?.modelNumber ?? ''}`}
+      query={useModels()}
+      columns={[
+        { header: 'Model', cellClassName: 'font-mono', cell: (m) => m.modelNumber },
+        { header: 'Name', cell: (m) => m.name },
+        { header: 'Family', cell: (m) => m.familyCode },
+        {
+          header: 'Parts / labor / cap',
+          className: 'text-right',
+          cellClassName: 'text-right tabular-nums',
+          cell: (m) => (
+            <>
+              {m.partsMonths} / {m.laborMonths} / {m.capMonthsFromShip} mo
+              {m.componentTerms.length > 0 && <span className="block text-xs text-ink-600">{m.componentTerms.length} longer component term(s)</span>}
+            </>
+          ),
+        },
+        { header: 'Readings', className: 'text-right', cell: (m) => m.readingSpecs.length },
+        { header: 'Status', cell: (m) => <StatusBadge active={m.active} /> },
+      ]}
+      renderCreate={(done) => <ModelForm onDone={done} />}
+      renderEdit={(m, done) => (
+        <div className="space-y-6">
+          <ModelForm model={m} onDone={done} />
+          <ReadingSpecs model={m} />
+        </div>
       )}
-      {models.data && (
-        <Table caption="Models">
-          <THead>
-            <Tr>
-              <Th>Model</Th>
-              <Th>Name</Th>
-              <Th>Family</Th>
-              <Th className="text-right">Parts / labor / cap</Th>
-              <Th className="text-right">Readings</Th>
-              <Th>Status</Th>
-              <Th>
-                Actions
-              </Th>
-            </Tr>
-          </THead>
-          <TBody>
-            {models.data.map((m) => (
-              <Tr key={m.id}>
-                <Td className="font-mono">{m.modelNumber}</Td>
-                <Td>{m.name}</Td>
-                <Td>{m.familyCode}</Td>
-                <Td className="text-right tabular-nums">
-                  {m.partsMonths} / {m.laborMonths} / {m.capMonthsFromShip} mo
-                  {m.componentTerms.length > 0 && <span className="block text-xs text-ink-600">{m.componentTerms.length} longer component term(s)</span>}
-                </Td>
-                <Td className="text-right">{m.readingSpecs.length}</Td>
-                <Td>{m.active ? <Badge tone="green">Active</Badge> : <Badge tone="slate">Retired</Badge>}</Td>
-                <Td className="text-right">
-                  <Button size="sm" variant="secondary" onClick={() => setEditing(m.id)} aria-label={`Edit model ${m.modelNumber}`}>
-                    Edit
-                  </Button>
-                </Td>
-              </Tr>
-            ))}
-          </TBody>
-        </Table>
-      )}
-      <Modal open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New model' : `Edit model ${current?.modelNumber ?? ''}`}>
-        {editing === 'new' && <ModelForm onDone={() => setEditing(null)} />}
-        {current && (
-          <div className="space-y-6">
-            <ModelForm model={current} onDone={() => setEditing(null)} />
-            <ReadingSpecs model={current} />
-          </div>
-        )}
-      </Modal>
-    </Card>
+    />
   );
 }
 

@@ -7,89 +7,45 @@ import { createPartSchema, updatePartSchema, type PartItem } from '@shared/schem
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { Skeleton } from '@/components/ui/skeleton';
-import { Table, TBody, Td, Th, THead, Tr } from '@/components/ui/table';
-import { errorMessage } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
-import { formatCents, formatDate } from '@/lib/format';
+import { ActiveCheckbox, AffectedClaimsNotice, CataloguePanel, DatedHistory, DatedValue, StatusBadge, today } from './catalogue-panel';
+import { formatCents } from '@/lib/format';
 import { useParts } from '../api/get-parts';
 import { useFamilies } from '../api/get-families';
 import { useCreatePart } from '../api/create-part';
 import { useUpdatePart } from '../api/update-part';
 import { usePriceHistory } from '../api/get-price-history';
-import { Modal } from '@/components/ui/modal';
 import { MoneyInput } from './money-input';
-
-const HISTORY_START = '0001-01-01';
-const since = (d: string) => (d === HISTORY_START ? 'from the start' : `from ${formatDate(d)}`);
-const today = () => new Date().toISOString().slice(0, 10);
 
 /** Parts with their list price (effective-dated) and whether the failed part must come back. */
 export function PartsPanel() {
-  const parts = useParts();
-  const [editing, setEditing] = useState<PartItem | 'new' | null>(null);
   return (
-    <Card>
-      <CardHeader
-        title="Parts"
-        description="A new list price applies to claims repaired on or after its effective date."
-        actions={<Button onClick={() => setEditing('new')}>New part</Button>}
-      />
-      {parts.isPending && <Skeleton className="m-4 h-40" />}
-      {parts.isError && (
-        <CardBody>
-          <Alert tone="error">{errorMessage(parts.error)}</Alert>
-        </CardBody>
-      )}
-      {parts.data && (
-        <Table caption="Parts">
-          <THead>
-            <Tr>
-              <Th>Part number</Th>
-              <Th>Description</Th>
-              <Th>Family</Th>
-              <Th className="text-right">List price today</Th>
-              <Th>Return</Th>
-              <Th>Status</Th>
-              <Th>
-                Actions
-              </Th>
-            </Tr>
-          </THead>
-          <TBody>
-            {parts.data.map((p) => (
-              <Tr key={p.id}>
-                <Td className="font-mono">{p.partNumber}</Td>
-                <Td>{p.description}</Td>
-                <Td>{p.familyCode ?? 'Any'}</Td>
-                <Td className="text-right tabular-nums">
-                  {formatCents(p.listPriceCents, 'USD')}
-                  {p.scheduled.map((s) => (
-                    <span key={s.effectiveFrom} className="block text-xs text-brass-700">
-                      {formatCents(s.listPriceCents, 'USD')} {since(s.effectiveFrom)}
-                    </span>
-                  ))}
-                </Td>
-                <Td>{p.returnRequired ? <Badge tone="orange">Required</Badge> : '—'}</Td>
-                <Td>{p.active ? <Badge tone="green">Active</Badge> : <Badge tone="slate">Retired</Badge>}</Td>
-                <Td className="text-right">
-                  <Button size="sm" variant="secondary" onClick={() => setEditing(p)} aria-label={`Edit part ${p.partNumber}`}>
-                    Edit
-                  </Button>
-                </Td>
-              </Tr>
-            ))}
-          </TBody>
-        </Table>
-      )}
-      <Modal open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New part' : `Edit part ${editing?.partNumber ?? ''}`}>
-        {editing === 'new' && <CreatePartForm onDone={() => setEditing(null)} />}
-        {editing && editing !== 'new' && <EditPartForm part={editing} onDone={() => setEditing(null)} />}
-      </Modal>
-    </Card>
+    <CataloguePanel<PartItem>
+      title="Parts"
+      description="A new list price applies to claims repaired on or after its effective date."
+      caption="Parts"
+      newLabel="New part"
+      newTitle="New part"
+      editLabel={(p) => `Edit part ${p?.partNumber ?? ''}`}
+      query={useParts()}
+      columns={[
+        { header: 'Part number', cellClassName: 'font-mono', cell: (p) => p.partNumber },
+        { header: 'Description', cell: (p) => p.description },
+        { header: 'Family', cell: (p) => p.familyCode ?? 'Any' },
+        {
+          header: 'List price today',
+          className: 'text-right',
+          cellClassName: 'text-right tabular-nums',
+          cell: (p) => <DatedValue now={formatCents(p.listPriceCents, 'USD')} scheduled={p.scheduled} show={(s) => formatCents(s.listPriceCents, 'USD')} />,
+        },
+        { header: 'Return', cell: (p) => (p.returnRequired ? <Badge tone="orange">Required</Badge> : '—') },
+        { header: 'Status', cell: (p) => <StatusBadge active={p.active} /> },
+      ]}
+      renderCreate={(done) => <CreatePartForm onDone={done} />}
+      renderEdit={(p, done) => <EditPartForm part={p} onDone={done} />}
+    />
   );
 }
 
@@ -175,15 +131,7 @@ function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) 
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {affected && (
-        <Alert tone="info">
-          Saved. The price takes effect from {affected.effectiveFrom} and changes {affected.count} filed {affected.count === 1 ? 'claim' : 'claims'}
-          {affected.numbers.length > 0 ? `: ${affected.numbers.join(', ')}${affected.count > affected.numbers.length ? ' and more' : ''}` : ''}.{' '}
-          <button type="button" className="underline" onClick={onDone}>
-            Close
-          </button>
-        </Alert>
-      )}
+      {affected && <AffectedClaimsNotice what="price" affected={affected} onClose={onDone} />}
       {formError && <Alert tone="error">{formError}</Alert>}
       <Field label="Description" error={errors.description?.message}>
         {(p) => <Input {...p} {...register('description')} />}
@@ -206,24 +154,11 @@ function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) 
           {(p) => <Input {...p} {...register('reason')} />}
         </Field>
       </div>
-      {history.data && history.data.length > 0 && (
-        <div className="text-sm">
-          <p className="font-medium text-ink-800">Price history</p>
-          <ul className="text-ink-700">
-            {history.data.map((h) => (
-              <li key={h.effectiveFrom}>
-                {formatCents(h.listPriceCents, 'USD')} {since(h.effectiveFrom)}
-              </li>
-            ))}
-          </ul>
-        </div>
-      )}
+      <DatedHistory title="Price history" items={history.data} show={(h) => formatCents(h.listPriceCents, 'USD')} />
       <label className="flex items-center gap-2 text-sm">
         <input type="checkbox" className="size-4" {...register('returnRequired')} /> The failed part must be returned before the claim is paid
       </label>
-      <label className="flex items-center gap-2 text-sm">
-        <input type="checkbox" className="size-4" {...register('active')} /> Active (untick to retire)
-      </label>
+      <ActiveCheckbox registration={register('active')} />
       <Button type="submit" pending={update.isPending}>
         Save
       </Button>

@@ -6,90 +6,45 @@ import type { z } from 'zod';
 import { attachmentRoleLabels, attachmentRoles } from '@shared/schemas/claim';
 import { createRepairCodeSchema, updateRepairCodeSchema, type RepairCodeItem } from '@shared/schemas/admin';
 import { Alert } from '@/components/ui/alert';
-import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { Skeleton } from '@/components/ui/skeleton';
-import { Table, TBody, Td, Th, THead, Tr } from '@/components/ui/table';
-import { errorMessage } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
-import { formatDate, formatHours } from '@/lib/format';
+import { ActiveCheckbox, AffectedClaimsNotice, CataloguePanel, DatedHistory, DatedValue, StatusBadge, today } from './catalogue-panel';
+import { formatHours } from '@/lib/format';
 import { useRepairCodes } from '../api/get-repair-codes';
 import { useFamilies } from '../api/get-families';
 import { useCreateRepairCode } from '../api/create-repair-code';
 import { useUpdateRepairCode } from '../api/update-repair-code';
 import { useAllowanceHistory } from '../api/get-allowance-history';
-import { Modal } from '@/components/ui/modal';
-
-const HISTORY_START = '0001-01-01';
-const since = (d: string) => (d === HISTORY_START ? 'from the start' : `from ${formatDate(d)}`);
-const today = () => new Date().toISOString().slice(0, 10);
 
 /** The labor-time guide: allowed hours (effective-dated) and the evidence each repair needs. */
 export function RepairCodesPanel() {
-  const codes = useRepairCodes();
-  const [editing, setEditing] = useState<RepairCodeItem | 'new' | null>(null);
   return (
-    <Card>
-      <CardHeader
-        title="Repair codes"
-        description="A new allowance applies to claims repaired on or after its effective date; earlier repairs keep the allowance in force then."
-        actions={<Button onClick={() => setEditing('new')}>New repair code</Button>}
-      />
-      {codes.isPending && <Skeleton className="m-4 h-40" />}
-      {codes.isError && (
-        <CardBody>
-          <Alert tone="error">{errorMessage(codes.error)}</Alert>
-        </CardBody>
-      )}
-      {codes.data && (
-        <Table caption="Repair codes">
-          <THead>
-            <Tr>
-              <Th>Code</Th>
-              <Th>Repair</Th>
-              <Th>Family</Th>
-              <Th className="text-right">Allowed today</Th>
-              <Th>Required evidence</Th>
-              <Th>Status</Th>
-              <Th>
-                Actions
-              </Th>
-            </Tr>
-          </THead>
-          <TBody>
-            {codes.data.map((c) => (
-              <Tr key={c.id}>
-                <Td className="font-mono">{c.code}</Td>
-                <Td>{c.description}</Td>
-                <Td>{c.familyCode}</Td>
-                <Td className="text-right tabular-nums">
-                  {formatHours(c.allowedHours)}
-                  {c.scheduled.map((s) => (
-                    <span key={s.effectiveFrom} className="block text-xs text-brass-700">
-                      {formatHours(s.allowedHours)} {since(s.effectiveFrom)}
-                    </span>
-                  ))}
-                </Td>
-                <Td className="text-xs">{c.requiredEvidence.map((r) => attachmentRoleLabels[r]).join(', ') || '—'}</Td>
-                <Td>{c.active ? <Badge tone="green">Active</Badge> : <Badge tone="slate">Retired</Badge>}</Td>
-                <Td className="text-right">
-                  <Button size="sm" variant="secondary" onClick={() => setEditing(c)} aria-label={`Edit repair code ${c.code}`}>
-                    Edit
-                  </Button>
-                </Td>
-              </Tr>
-            ))}
-          </TBody>
-        </Table>
-      )}
-      <Modal open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New repair code' : `Edit repair code ${editing?.code ?? ''}`}>
-        {editing === 'new' && <CreateRepairCodeForm onDone={() => setEditing(null)} />}
-        {editing && editing !== 'new' && <EditRepairCodeForm code={editing} onDone={() => setEditing(null)} />}
-      </Modal>
-    </Card>
+    <CataloguePanel<RepairCodeItem>
+      title="Repair codes"
+      description="A new allowance applies to claims repaired on or after its effective date; earlier repairs keep the allowance in force then."
+      caption="Repair codes"
+      newLabel="New repair code"
+      newTitle="New repair code"
+      editLabel={(c) => `Edit repair code ${c?.code ?? ''}`}
+      query={useRepairCodes()}
+      columns={[
+        { header: 'Code', cellClassName: 'font-mono', cell: (c) => c.code },
+        { header: 'Repair', cell: (c) => c.description },
+        { header: 'Family', cell: (c) => c.familyCode },
+        {
+          header: 'Allowed today',
+          className: 'text-right',
+          cellClassName: 'text-right tabular-nums',
+          cell: (c) => <DatedValue now={formatHours(c.allowedHours)} scheduled={c.scheduled} show={(s) => formatHours(s.allowedHours)} />,
+        },
+        { header: 'Required evidence', cellClassName: 'text-xs', cell: (c) => c.requiredEvidence.map((r) => attachmentRoleLabels[r]).join(', ') || '—' },
+        { header: 'Status', cell: (c) => <StatusBadge active={c.active} /> },
+      ]}
+      renderCreate={(done) => <CreateRepairCodeForm onDone={done} />}
+      renderEdit={(c, done) => <EditRepairCodeForm code={c} onDone={done} />}
+    />
   );
 }
 
@@ -182,15 +137,7 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
   });
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
-      {affected && (
-        <Alert tone="info">
-          Saved. The allowance takes effect from {affected.effectiveFrom} and changes {affected.count} filed {affected.count === 1 ? 'claim' : 'claims'}
-          {affected.numbers.length > 0 ? `: ${affected.numbers.join(', ')}${affected.count > affected.numbers.length ? ' and more' : ''}` : ''}.{' '}
-          <button type="button" className="underline" onClick={onDone}>
-            Close
-          </button>
-        </Alert>
-      )}
+      {affected && <AffectedClaimsNotice what="allowance" affected={affected} onClose={onDone} />}
       {formError && <Alert tone="error">{formError}</Alert>}
       <Field label="Repair" error={errors.description?.message}>
         {(p) => <Input {...p} {...register('description')} />}
@@ -217,22 +164,9 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
           {(p) => <Input {...p} {...register('reason')} />}
         </Field>
       </div>
-      {history.data && history.data.length > 0 && (
-        <div className="text-sm">
-          <p className="font-medium text-ink-800">Allowance history</p>
-          <ul className="text-ink-700">
-            {history.data.map((h) => (
-              <li key={h.effectiveFrom}>
-                {formatHours(h.allowedHours)} {since(h.effectiveFrom)}
-              </li>
-            ))}
-          </ul>
-        </div>
-      )}
+      <DatedHistory title="Allowance history" items={history.data} show={(h) => formatHours(h.allowedHours)} />
       <EvidenceChecks register={register as never} />
-      <label className="flex items-center gap-2 text-sm">
-        <input type="checkbox" className="size-4" {...register('active')} /> Active (untick to retire)
-      </label>
+      <ActiveCheckbox registration={register('active')} />
       <Button type="submit" pending={update.isPending}>
         Save
       </Button>
