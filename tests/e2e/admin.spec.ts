@@ -20,7 +20,7 @@ async function openUsers(page: Page) {
   await expect(page.getByRole('heading', { level: 1, name: 'Users and agency' })).toBeVisible();
 }
 
-test('an agency admin invites a technician, who accepts from the mailbox link and signs in; the admin records a certification', async ({ page, request }) => {
+test('an agency admin invites a technician, who accepts from the mailbox link and signs in; the admin records a certification, then revokes it with a reason', async ({ page, request }) => {
   const email = `e2e.tech.${unique.toLowerCase()}@harborview.test`;
   const name = 'Solveig Tarrant';
 
@@ -79,6 +79,21 @@ test('an agency admin invites a technician, who accepts from the mailbox link an
   await expect(page.getByRole('list', { name: `Certificates of ${name}` }).getByText(`No. E2E-${unique}`)).toBeVisible();
   await page.getByRole('button', { name: 'Close' }).click();
   await expect(row.getByText('Valid', { exact: true })).toBeVisible();
+
+  // The admin revokes it: a reason is required, and the list then says so with the reason.
+  await row.getByRole('button', { name: 'Certifications' }).click();
+  const list = page.getByRole('list', { name: `Certificates of ${name}` });
+  await list.getByRole('button', { name: 'Revoke', exact: true }).click();
+  const revoke = page.getByRole('form', { name: `Revoke certificate E2E-${unique}` });
+  await revoke.getByRole('button', { name: 'Revoke the certificate' }).click();
+  await expect(revoke.getByText('Enter why the certificate is revoked.')).toBeVisible();
+  await revoke.getByLabel('Reason for revoking').fill('Training record could not be confirmed');
+  await revoke.getByRole('button', { name: 'Revoke the certificate' }).click();
+  await expect(page.getByText(`Revoked certificate E2E-${unique}`)).toBeVisible();
+  await expect(list.getByText('Revoked', { exact: true })).toBeVisible();
+  await expect(list.getByText(/Training record could not be confirmed/)).toBeVisible();
+  await page.getByRole('button', { name: 'Close' }).click();
+  await expect(row.getByText('None on file')).toBeVisible();
 });
 
 interface Labor {

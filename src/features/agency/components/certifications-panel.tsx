@@ -2,18 +2,20 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { createCertificationSchema, type CertificationItem } from '@shared/schemas/admin';
+import { createCertificationSchema, revokeCertificationSchema, type CertificationItem } from '@shared/schemas/admin';
+import { Badge } from '@/components/ui/badge';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { Skeleton } from '@/components/ui/skeleton';
-import { errorMessage } from '@/lib/api-client';
+import { errorMessage, isApiError } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
 import { formatDate } from '@/lib/format';
 import { useCertifications } from '../api/get-certifications';
 import { useCreateCertification } from '../api/create-certification';
 import { useUpdateCertification } from '../api/update-certification';
+import { useRevokeCertification } from '../api/revoke-certification';
 import { useFamilies } from '../api/get-families';
 import { CertificationBadge } from './certification-badge';
 
@@ -27,6 +29,7 @@ export function CertificationsPanel({ user }: { user: { id: string; name: string
   const create = useCreateCertification();
   const update = useUpdateCertification();
   const [editing, setEditing] = useState<CertificationItem | null>(null);
+  const [revoking, setRevoking] = useState<string | null>(null);
   const [formError, setFormError] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
   const empty: Values = { userId: user.id, familyId: '', certificateNumber: '', validFrom: '', validTo: '', attachmentId: null };
@@ -77,10 +80,36 @@ export function CertificationsPanel({ user }: { user: { id: string; name: string
                   {c.state === 'expiring' && ` · ${c.daysLeft} days left`}
                 </span>
               </span>
-              <CertificationBadge state={c.state} />
-              <Button size="sm" variant="ghost" onClick={() => startEdit(c)}>
-                Edit
-              </Button>
+              {c.revokedAt ? (
+                <>
+                  <Badge tone="red">Revoked</Badge>
+                  <span className="basis-full text-ink-700">
+                    Revoked {formatDate(c.revokedAt.slice(0, 10))}
+                    {c.revokedByName && ` by ${c.revokedByName}`}: {c.revokeReason}
+                  </span>
+                </>
+              ) : (
+                <>
+                  <CertificationBadge state={c.state} />
+                  <Button size="sm" variant="ghost" onClick={() => startEdit(c)}>
+                    Edit
+                  </Button>
+                  <Button size="sm" variant="ghost" onClick={() => setRevoking(revoking === c.id ? null : c.id)} aria-expanded={revoking === c.id}>
+                    Revoke
+                  </Button>
+                  {revoking === c.id && (
+                    <RevokeForm
+                      cert={c}
+                      onDone={(msg) => {
+                        if (editing?.id === c.id) startEdit(null);
+                        setRevoking(null);
+                        setSaved(msg);
+                      }}
+                      onCancel={() => setRevoking(null)}
+                    />
+                  )}
+                </>
+              )}
             </li>
           ))}
         </ul>
@@ -126,5 +155,43 @@ export function CertificationsPanel({ user }: { user: { id: string; name: string
         </div>
       </form>
     </div>
+  );
+}
+
+/** Asks why the certificate is revoked; the reason is required and shown in the list afterwards. */
+function RevokeForm({ cert, onDone, onCancel }: { cert: CertificationItem; onDone: (message: string) => void; onCancel: () => void }) {
+  const revoke = useRevokeCertification();
+  const [reason, setReason] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const submit = (e: React.FormEvent) => {
+    e.preventDefault();
+    const parsed = revokeCertificationSchema.safeParse({ reason });
+    if (!parsed.success) {
+      setError(parsed.error.issues[0]?.message ?? 'Enter why the certificate is revoked.');
+      return;
+    }
+    setError(null);
+    revoke.mutate(
+      { id: cert.id, body: parsed.data },
+      {
+        onSuccess: (c) => onDone(`Revoked certificate ${c.certificateNumber} (${c.familyName}).`),
+        onError: (err) => setError(isApiError(err) && err.fields?.reason ? err.fields.reason : errorMessage(err)),
+      },
+    );
+  };
+  return (
+    <form onSubmit={submit} noValidate className="basis-full space-y-2 rounded-md bg-ink-50 p-2" aria-label={`Revoke certificate ${cert.certificateNumber}`}>
+      <Field label="Reason for revoking" error={error ?? undefined}>
+        {(p) => <Input {...p} autoComplete="off" value={reason} onChange={(e) => setReason(e.target.value)} />}
+      </Field>
+      <div className="flex gap-2">
+        <Button type="submit" size="sm" pending={revoke.isPending}>
+          Revoke the certificate
+        </Button>
+        <Button size="sm" variant="ghost" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
+    </form>
   );
 }
