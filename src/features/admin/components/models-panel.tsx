@@ -9,9 +9,9 @@ import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { errorMessage } from '@/lib/api-client';
 import { applyServerErrors } from '@/lib/form-errors';
+import { FamilyOptions } from './family-options';
 import { CataloguePanel, StatusBadge } from './catalogue-panel';
 import { useModels } from '../api/get-models';
-import { useFamilies } from '../api/get-families';
 import { useParts } from '../api/get-parts';
 import { useCreateModel } from '../api/create-model';
 import { useUpdateModel } from '../api/update-model';
@@ -65,7 +65,6 @@ type ModelValues = z.input<typeof createModelSchema>;
 const modelFields = ['familyId', 'modelNumber', 'name', 'partsMonths', 'laborMonths', 'capMonthsFromShip', 'installGraceDays', 'componentTerms'] as const;
 
 function ModelForm({ model, onDone }: { model?: ModelItem; onDone: () => void }) {
-  const families = useFamilies();
   const parts = useParts();
   const create = useCreateModel();
   const update = useUpdateModel();
@@ -107,12 +106,7 @@ function ModelForm({ model, onDone }: { model?: ModelItem; onDone: () => void })
         <Field label="Product family" error={errors.familyId?.message}>
           {(p) => (
             <Select {...p} {...register('familyId')}>
-              <option value="">Choose…</option>
-              {(families.data ?? []).map((f) => (
-                <option key={f.id} value={f.id}>
-                  {f.code} · {f.name}
-                </option>
-              ))}
+              <FamilyOptions blank="Choose…" />
             </Select>
           )}
         </Field>

@@ -13,11 +13,11 @@ import { applyServerErrors } from '@/lib/form-errors';
 import { ActiveCheckbox, AffectedClaimsNotice, CataloguePanel, DatedHistory, DatedValue, StatusBadge, today } from './catalogue-panel';
 import { formatCents } from '@/lib/format';
 import { useParts } from '../api/get-parts';
-import { useFamilies } from '../api/get-families';
 import { useCreatePart } from '../api/create-part';
 import { useUpdatePart } from '../api/update-part';
 import { usePriceHistory } from '../api/get-price-history';
 import { MoneyInput } from './money-input';
+import { FamilyOptions } from './family-options';
 
 /** Parts with their list price (effective-dated) and whether the failed part must come back. */
 export function PartsPanel() {
@@ -49,20 +49,6 @@ export function PartsPanel() {
   );
 }
 
-function FamilyOptions() {
-  const families = useFamilies();
-  return (
-    <>
-      <option value="">Any family</option>
-      {(families.data ?? []).map((f) => (
-        <option key={f.id} value={f.id}>
-          {f.code} · {f.name}
-        </option>
-      ))}
-    </>
-  );
-}
-
 const familyValue = { setValueAs: (v: unknown) => (v === '' ? null : v) };
 
 function CreatePartForm({ onDone }: { onDone: () => void }) {
@@ -88,7 +74,7 @@ function CreatePartForm({ onDone }: { onDone: () => void }) {
       <Field label="Product family" error={errors.familyId?.message}>
         {(p) => (
           <Select {...p} {...register('familyId', familyValue)}>
-            <FamilyOptions />
+            <FamilyOptions blank="Any family" />
           </Select>
         )}
       </Field>
@@ -139,7 +125,7 @@ function EditPartForm({ part, onDone }: { part: PartItem; onDone: () => void }) 
       <Field label="Product family" error={errors.familyId?.message}>
         {(p) => (
           <Select {...p} {...register('familyId', familyValue)}>
-            <FamilyOptions />
+            <FamilyOptions blank="Any family" />
           </Select>
         )}
       </Field>

@@ -11,9 +11,9 @@ import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { applyServerErrors } from '@/lib/form-errors';
 import { ActiveCheckbox, AffectedClaimsNotice, CataloguePanel, DatedHistory, DatedValue, StatusBadge, today } from './catalogue-panel';
+import { FamilyOptions } from './family-options';
 import { formatHours } from '@/lib/format';
 import { useRepairCodes } from '../api/get-repair-codes';
-import { useFamilies } from '../api/get-families';
 import { useCreateRepairCode } from '../api/create-repair-code';
 import { useUpdateRepairCode } from '../api/update-repair-code';
 import { useAllowanceHistory } from '../api/get-allowance-history';
@@ -64,7 +64,6 @@ function EvidenceChecks({ register }: { register: (name: 'requiredEvidence') => 
 }
 
 function CreateRepairCodeForm({ onDone }: { onDone: () => void }) {
-  const families = useFamilies();
   const create = useCreateRepairCode();
   const [formError, setFormError] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState } = useForm<z.input<typeof createRepairCodeSchema>, unknown, z.output<typeof createRepairCodeSchema>>({
@@ -85,12 +84,7 @@ function CreateRepairCodeForm({ onDone }: { onDone: () => void }) {
         <Field label="Product family" error={errors.familyId?.message}>
           {(p) => (
             <Select {...p} {...register('familyId')}>
-              <option value="">Choose…</option>
-              {(families.data ?? []).map((f) => (
-                <option key={f.id} value={f.id}>
-                  {f.code} · {f.name}
-                </option>
-              ))}
+              <FamilyOptions blank="Choose…" />
             </Select>
           )}
         </Field>
@@ -110,7 +104,6 @@ function CreateRepairCodeForm({ onDone }: { onDone: () => void }) {
 }
 
 function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: () => void }) {
-  const families = useFamilies();
   const history = useAllowanceHistory(code.id);
   const update = useUpdateRepairCode();
   const [affected, setAffected] = useState<AffectedClaims | null>(null);
@@ -145,11 +138,7 @@ function EditRepairCodeForm({ code, onDone }: { code: RepairCodeItem; onDone: ()
       <Field label="Product family" error={errors.familyId?.message}>
         {(p) => (
           <Select {...p} {...register('familyId')}>
-            {(families.data ?? []).map((f) => (
-              <option key={f.id} value={f.id}>
-                {f.code} · {f.name}
-              </option>
-            ))}
+            <FamilyOptions />
           </Select>
         )}
       </Field>
