@@ -4,6 +4,7 @@ import { tx } from '../../db/client';
 import { passwordResets, users } from '../../db/schema/index';
 import type { AppDeps } from '../../lib/deps';
 import { writeAudit } from '../../lib/audit';
+import { auditSignIn } from './sign-in-audit';
 import { AppError, TooManyRequestsError, ValidationError } from '../../lib/errors';
 import { hashToken, newId, newToken } from '../../lib/ids';
 import { enqueueMail } from '../../lib/mail/outbox';
@@ -107,17 +108,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       throttle.settle(admission, matches && usable);
       if (!matches || !usable) {
         const reason = !account ? 'unknown_account' : !account.passwordHash ? 'no_password' : !matches ? 'wrong_password' : 'inactive';
-        writeAudit(db, clock, {
-          actorId: account?.id ?? null,
-          organisationId: account?.organisationId ?? null,
-          action: 'auth.sign_in',
-          recordType: 'User',
-          recordId: account?.id ?? null,
-          outcome: 'failure',
-          ip,
-          detail: { reason, ...(account ? {} : { emailDigest: emailDigest(email) }) },
-          repeats: 'keep',
-        });
+        auditSignIn(db, clock, account, 'failure', ip, { reason, ...(account ? {} : { emailDigest: emailDigest(email) }) }, 'keep');
         throw new InvalidCredentialsError();
       }
 
@@ -125,7 +116,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       // A right password alone is not a session when a second factor is enrolled or required.
       const next = secondFactor ? secondFactor.nextStep(a) : ({ step: 'session' } as const);
       if (next.step !== 'session') {
-        writeAudit(db, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip, detail: { secondFactor: next.step } });
+        auditSignIn(db, clock, a, 'success', ip, { secondFactor: next.step });
         const pending = await deps.tokens.issuePending({ sub: a.id, sv: a.sessionVersion, pu: next.step }, nowSeconds());
         return { kind: 'pending', pending, challenge: { secondFactor: { purpose: next.step, methods: next.methods } }, device: await throttle.deviceCookie(a.id) };
       }
@@ -143,8 +134,7 @@ export function createAuthService(deps: AppDeps, limits: Partial<AuthLimits> = {
       const now = clock.now().toISOString();
       tx(db, (t) => {
         t.update(users).set({ lastSignInAt: now }).where(eq(users.id, a.id)).run();
-        if (factor) writeAudit(t, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip, detail: { secondFactor: factor } });
-        else writeAudit(t, clock, { actorId: a.id, organisationId: a.organisationId, action: 'auth.sign_in', recordType: 'User', recordId: a.id, outcome: 'success', ip });
+        auditSignIn(t, clock, a, 'success', ip, factor ? { secondFactor: factor } : undefined);
       });
       const token = await deps.tokens.issue(a.id, sv, nowSeconds(), nowSeconds(), a.role);
       const ability = defineAbilityFor({ id: a.id, email: a.email, name: a.name, role: a.role, organisationId: a.organisationId, organisationKind: a.organisationKind });

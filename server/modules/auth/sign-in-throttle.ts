@@ -2,7 +2,7 @@ import { createHmac, randomBytes } from 'node:crypto';
 import type { CookieOptions } from 'express';
 import { SignJWT, jwtVerify } from 'jose';
 import type { AppDeps } from '../../lib/deps';
-import { writeAudit } from '../../lib/audit';
+import { auditSignIn } from './sign-in-audit';
 import { TooManyRequestsError } from '../../lib/errors';
 import type { RateCheck, RateRule, RateTier } from '../../lib/rate-store';
 
@@ -143,16 +143,7 @@ export function createSignInThrottle(deps: AppDeps, overrides: Partial<SignInLim
       const d = rates.consume(checks);
       if (!d.allowed) {
         // Repeats of this row within a minute collapse into one row with a count.
-        writeAudit(db, clock, {
-          actorId: account?.id ?? null,
-          organisationId: account?.organisationId ?? null,
-          action: 'auth.sign_in',
-          recordType: 'User',
-          recordId: account?.id ?? null,
-          outcome: 'denied',
-          ip,
-          detail: { reason: refusalReason(checks), trustedDevice: !!device, ...(account ? {} : { emailDigest: input.emailDigest }) },
-        });
+        auditSignIn(db, clock, account, 'denied', ip, { reason: refusalReason(checks), trustedDevice: !!device, ...(account ? {} : { emailDigest: input.emailDigest }) });
         throw new TooManyRequestsError(d.retryAfterSec, THROTTLED_MESSAGE);
       }
       return { email, trusted: !!device, checks };
