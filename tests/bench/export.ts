@@ -22,6 +22,7 @@ import { fileURLToPath } from 'node:url';
 import Database from 'better-sqlite3';
 import { stringify } from 'csv-stringify';
 import type { Figure, Measurement } from './lib/measurement';
+import { benchSignIn } from './lib/sign-in';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const PAID_CLAIMS = Number(process.env.BENCH_EXPORT_CLAIMS) > 0 ? Number(process.env.BENCH_EXPORT_CLAIMS) : 100_000;
@@ -33,12 +34,11 @@ const ROUNDS = 3;
 
 /** The same statement the app runs for the accountant (no agency, no dates), written out by hand. */
 const BASELINE_SQL = `
-  select c.number, a.name, u.name, un.serial, m.model_number, c.repair_date, r.number, r.payment_date, r.reference,
+  select c.number, r.payee_name, u.name, un.serial, m.model_number, c.repair_date, r.number, r.payment_date, r.reference,
          coalesce(c.approved_labor_cents, 0), coalesce(c.approved_travel_cents, 0), coalesce(c.approved_parts_cents, 0), coalesce(c.approved_total_cents, 0), c.currency
     from claims c
     join payment_run_items i on i.claim_id = c.id and i.active = 1
     join payment_runs r on r.id = i.run_id
-    join organisations a on a.id = c.agency_id
     join users u on u.id = c.technician_id
     left join units un on un.id = c.unit_id
     left join models m on m.id = un.model_id
@@ -120,7 +120,8 @@ export async function buildExportDataset(): Promise<ExportDataset> {
      values (?, ?, ?, ?, ?, ?, 'paid', 6, ?, ?, 'USD', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
   const insRun = sqlite.prepare(
-    `insert into payment_runs (id, number, agency_id, state, total_cents, currency, created_by, payment_date, reference, paid_by, paid_at, created_at) values (?, ?, ?, 'paid', ?, 'USD', ?, ?, ?, ?, ?, ?)`,
+    `insert into payment_runs (id, number, agency_id, payee_name, state, total_cents, currency, created_by, payment_date, reference, paid_by, paid_at, created_at)
+     values (?, ?, ?, (select name from organisations where id = ?), 'paid', ?, 'USD', ?, ?, ?, ?, ?, ?)`,
   );
   const updRun = sqlite.prepare('update payment_runs set total_cents = ? where id = ?');
   const insItem = sqlite.prepare('insert into payment_run_items (id, run_id, claim_id, amount_cents, active) values (?, ?, ?, ?, 1)');
@@ -148,7 +149,7 @@ export async function buildExportDataset(): Promise<ExportDataset> {
       const paidDay = Math.floor((runNo * 500) / (PAID_CLAIMS / CLAIMS_PER_RUN));
       // Some references carry a comma, so quoting is part of the work.
       const reference = runNo % 10 === 0 ? `ACH ${String(runNo).padStart(7, '0')}, batch ${runNo % 7}` : `ACH ${String(runNo).padStart(7, '0')}`;
-      insRun.run(runId, `PR-B-${String(runNo).padStart(5, '0')}`, agency.id, 0, accountant, day(paidDay), reference, accountant, `${day(paidDay)}T16:00:00.000Z`, now);
+      insRun.run(runId, `PR-B-${String(runNo).padStart(5, '0')}`, agency.id, agency.id, 0, accountant, day(paidDay), reference, accountant, `${day(paidDay)}T16:00:00.000Z`, now);
       let total = 0;
       for (let k = 0; k < CLAIMS_PER_RUN && i + k < PAID_CLAIMS; k++) {
         const c = i + k;
@@ -259,16 +260,6 @@ async function downloadAll(url: string, pid: number, headers: Record<string, str
   }
 }
 
-async function signInCookie(url: string, email: string, password: string): Promise<string> {
-  const res = await fetch(`${url}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json', origin: url }, body: JSON.stringify({ email, password }) });
-  if (res.status !== 200) throw new Error(`bench sign-in as ${email} answered ${res.status}: ${await res.text()}`);
-  const cookie = res.headers
-    .getSetCookie()
-    .map((c) => c.split(';')[0])
-    .find((c) => c.startsWith('fp_session='));
-  if (!cookie) throw new Error('bench sign-in set no session cookie');
-  return cookie;
-}
 
 const mb = (b: number) => b / 1024 / 1024;
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
@@ -286,7 +277,7 @@ export const paidClaimsExport: Measurement = {
     try {
       app = await start('app', join(here, 'servers/app-server.ts'), env);
       baseline = await start('export baseline', join(here, 'export.ts'), { ...env, FP_BENCH_EXPORT_BASELINE: '1' });
-      const cookie = await signInCookie(app.url, data.accountantEmail, data.accountantPassword);
+      const cookie = await benchSignIn(app.url, data.accountantEmail, data.accountantPassword, data.databasePath);
       const appUrl = `${app.url}/api/exports/paid-claims.csv`;
       const baseUrl = `${baseline.url}/paid-claims.csv`;
       const headers = { cookie };

@@ -2,24 +2,11 @@ import type { Measurement } from '../lib/measurement';
 import { BENCH_PASSWORD } from '../lib/dataset';
 import { startServer, type RunningServer } from '../lib/servers';
 import { load, warmUp, type LoadResult } from '../lib/load';
+import { benchSignIn } from '../lib/sign-in';
 
 const GOAL_RATIO = 0.5;
 const STATE = 'paid';
 
-async function signInCookie(app: RunningServer, email: string): Promise<string> {
-  const res = await fetch(`${app.url}/api/auth/sign-in`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: app.url },
-    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
-  });
-  if (res.status !== 200) throw new Error(`bench sign-in as ${email} answered ${res.status}: ${await res.text()}`);
-  const cookie = res.headers
-    .getSetCookie()
-    .map((c) => c.split(';')[0])
-    .find((c) => c.startsWith('fp_session='));
-  if (!cookie) throw new Error('bench sign-in set no session cookie');
-  return cookie;
-}
 
 interface ListPage {
   items: Record<string, unknown>[];
@@ -60,7 +47,7 @@ export const claimList: Measurement = {
     const app = await startServer('app', 'app-server.ts', env);
     const baseline = await startServer('baseline', 'baseline-server.ts', env);
     try {
-      const cookie = await signInCookie(app, data.measuredAdminEmail);
+      const cookie = await benchSignIn(app.url, data.measuredAdminEmail, BENCH_PASSWORD, data.databasePath);
       const appUrl = `${app.url}/api/claims?state=${STATE}&limit=50`;
       const baseUrl = `${baseline.url}/claims?agency=${encodeURIComponent(data.measuredAgencyId)}&state=${STATE}`;
       const appHeaders = { cookie };

@@ -3,10 +3,17 @@ import type { Measurement } from '../lib/measurement';
 import { BENCH_PASSWORD } from '../lib/dataset';
 import { startServer } from '../lib/servers';
 import { load, warmUp } from '../lib/load';
+import { benchSignIn } from '../lib/sign-in';
+import type { MileageRate } from '../../../shared/calculations/mileage';
 import { createRandom } from '../../../server/db/seed/random';
 
 const CLAIMS = 10_000;
 const GOAL_OVERHEAD = 0.1;
+
+/** The dated rate the generated claims' repair dates fall in, as the catalogue holds it. */
+const MILEAGE_RATES: readonly MileageRate[] = [
+  { effectiveFrom: '2026-01-01', effectiveTo: '2026-12-31', currency: 'USD', unit: 'mi', rateTenthCents: 725, source: 'bench: a dated USD rate per mile' },
+];
 
 /** A generated claim of 5 valued lines: 2 labor, travel distance and time, 1 part. */
 function generatedClaim(i: number, rng: ReturnType<typeof createRandom>): ValuationInput {
@@ -38,21 +45,11 @@ function generatedClaim(i: number, rng: ReturnType<typeof createRandom>): Valuat
       { id: 'L2', repairCode: { code: 'R-2', allowedHours: 0.75 }, hoursWorked: rng.int(3, 12) / 10, overtime: false },
     ],
     travel: { enteredRoundTripKm: rng.int(40, 250), travelHours: rng.int(5, 40) / 10 },
+    mileageRates: MILEAGE_RATES,
     parts: [{ id: 'P1', part: { partNumber: 'P-1', listPriceCents: rng.int(500, 40_000), returnRequired: i % 3 === 0 }, quantity: rng.int(1, 4) }],
   } as ValuationInput;
 }
 
-async function signInCookie(url: string, email: string): Promise<string> {
-  const res = await fetch(`${url}/api/auth/sign-in`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: url },
-    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
-  });
-  if (res.status !== 200) throw new Error(`bench sign-in as ${email} answered ${res.status}`);
-  const cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).find((c) => c.startsWith('fp_session='));
-  if (!cookie) throw new Error('bench sign-in set no session cookie');
-  return cookie;
-}
 
 /**
  * The shared valuation on 10,000 generated claims (lines per second), and its share of the
@@ -76,7 +73,7 @@ export const valuation: Measurement = {
     const env = { DATABASE_PATH: data.databasePath, STORAGE_DIR: `${data.dir}/files`, SEED_DEMO: 'false', BCRYPT_COST: '4', COOKIE_SECURE: 'false', PASSWORD_PEPPER: data.pepper };
     const app = await startServer('app', 'app-server.ts', env);
     try {
-      const cookie = await signInCookie(app.url, data.measuredAdminEmail);
+      const cookie = await benchSignIn(app.url, data.measuredAdminEmail, BENCH_PASSWORD, data.databasePath);
       const headers = { cookie };
       const list = (await (await fetch(`${app.url}/api/claims?state=paid&limit=1`, { headers })).json()) as { items: { id: string }[] };
       const id = list.items[0]?.id;
